@@ -1,0 +1,69 @@
+import { add, dinero, toDecimal, toSnapshot, type Dinero } from 'dinero.js';
+import { AUD, CAD, CHF, EUR, GBP, JPY, USD } from 'dinero.js/currencies';
+import { Dec } from './decimal';
+
+const CURRENCIES = { USD, EUR, GBP, CAD, AUD, CHF, JPY } as const;
+export const CURRENCY_CODES = Object.keys(CURRENCIES) as CurrencyCode[];
+export type CurrencyCode = keyof typeof CURRENCIES;
+export const DEFAULT_CURRENCY: CurrencyCode = 'USD';
+
+/** JSON shape of every amount: integer minor units, its plain decimal, and a display string. */
+export interface Money {
+  readonly amountMinor: number;
+  readonly currency: CurrencyCode;
+  readonly decimal: string;
+  readonly formatted: string;
+}
+
+export function currencyExponent(code: CurrencyCode): number {
+  return CURRENCIES[code].exponent as number;
+}
+
+const minorPerMajorCache = new Map<CurrencyCode, Dec>();
+
+export function minorPerMajor(code: CurrencyCode): Dec {
+  let found = minorPerMajorCache.get(code);
+  if (!found) {
+    found = new Dec(10).pow(currencyExponent(code));
+    minorPerMajorCache.set(code, found);
+  }
+  return found;
+}
+
+export function toDinero(amountMinor: number, code: CurrencyCode): Dinero<number> {
+  return dinero({ amount: amountMinor, currency: CURRENCIES[code] });
+}
+
+const formatters = new Map<string, Intl.NumberFormat>();
+
+function formatter(code: CurrencyCode, locale: string): Intl.NumberFormat {
+  const id = `${locale}|${code}`;
+  let f = formatters.get(id);
+  if (!f) {
+    const digits = currencyExponent(code);
+    f = new Intl.NumberFormat(locale, { style: 'currency', currency: code, minimumFractionDigits: digits, maximumFractionDigits: digits });
+    formatters.set(id, f);
+  }
+  return f;
+}
+
+/** Intl formats the decimal string itself (exact), never a float of the amount. */
+export function moneyOf(amountMinor: number, code: CurrencyCode, locale = 'en-US'): Money {
+  const decimal = toDecimal(toDinero(amountMinor, code));
+  const f = formatter(code, locale) as Intl.NumberFormat & { format(value: string): string };
+  return { amountMinor, currency: code, decimal, formatted: f.format(decimal) };
+}
+
+export function sumMinor(amounts: readonly number[], code: CurrencyCode): number {
+  let total = toDinero(0, code);
+  for (const a of amounts) total = add(total, toDinero(a, code));
+  return toSnapshotAmount(total);
+}
+
+function toSnapshotAmount(d: Dinero<number>): number {
+  return toSnapshot(d).amount;
+}
+
+export function formatMinor(amountMinor: number, code: CurrencyCode, locale = 'en-US'): string {
+  return moneyOf(amountMinor, code, locale).formatted;
+}
