@@ -217,7 +217,7 @@ if [[ "$MODE" == "test" ]]; then
     [[ -x /usr/bin/chromium ]] || need_apt chromium
   fi
   export CHROMIUM_PATH="${CHROMIUM_PATH:-/usr/bin/chromium}"
-  export BASE_URL="$APP_URL"
+  export CUPEL_BASE_URL="$APP_URL"
   start_maildev
   start_fakes
   status=0

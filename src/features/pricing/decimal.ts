@@ -84,10 +84,35 @@ export function toTrimmed(value: Dec, places: number): string {
 }
 
 /**
- * THE rounding rule of Cupel money: the exact amount n/d (in major units) is rounded once,
- * half-up (ties away from zero; amounts are never negative), to the currency's minor unit.
+ * Exact n/d rounded half-up to an integer, for n >= 0 and d > 0: integer quotient, exact remainder,
+ * then the tie test 2r >= d. No intermediate rounding, so an exact .5 is always seen as .5.
  */
-export function roundToMinorHalfUp(n: Dec, d: Dec, minorPerMajor: Dec): number {
-  const exact = d.eq(1) ? n.mul(minorPerMajor) : n.mul(minorPerMajor).div(d);
-  return exact.toDecimalPlaces(0, Dec.ROUND_HALF_UP).toNumber();
+export function roundDivHalfUp(n: Dec, d: Dec): Dec {
+  if (d.eq(1)) return n.toDecimalPlaces(0, Dec.ROUND_HALF_UP);
+  const q = n.divToInt(d);
+  const r = n.minus(q.mul(d));
+  return r.mul(2).gte(d) ? q.plus(1) : q;
+}
+
+/**
+ * THE rounding rule of Cupel money: the exact amount n/d (in minor units) is rounded once,
+ * half-up (ties away from zero; amounts are never negative), to a whole minor unit.
+ */
+export function roundToMinorHalfUp(nMinor: Dec, d: Dec): number {
+  return roundDivHalfUp(nMinor, d).toNumber();
+}
+
+/** n/d to a fixed number of places, half-up, without an inexact division. */
+export function ratioToFixedHalfUp(n: Dec, d: Dec, places: number): string {
+  return shiftPoint(roundDivHalfUp(n.mul(POWERS_OF_TEN[places]!), d).toFixed(), places);
+}
+
+const POWERS_OF_TEN = Array.from({ length: 13 }, (_, i) => new Dec(10).pow(i));
+
+/** "12345", 2 -> "123.45"; "5", 3 -> "0.005". Integer digits only. */
+export function shiftPoint(digits: string, places: number): string {
+  if (places === 0) return digits;
+  const negative = digits.startsWith('-');
+  const body = (negative ? digits.slice(1) : digits).padStart(places + 1, '0');
+  return `${negative ? '-' : ''}${body.slice(0, -places)}.${body.slice(-places)}`;
 }

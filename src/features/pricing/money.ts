@@ -1,6 +1,6 @@
 import { add, dinero, toDecimal, toSnapshot, type Dinero } from 'dinero.js';
 import { AUD, CAD, CHF, EUR, GBP, JPY, USD } from 'dinero.js/currencies';
-import { Dec } from './decimal';
+import { Dec, shiftPoint } from './decimal';
 
 const CURRENCIES = { USD, EUR, GBP, CAD, AUD, CHF, JPY } as const;
 export const CURRENCY_CODES = Object.keys(CURRENCIES) as CurrencyCode[];
@@ -47,9 +47,20 @@ function formatter(code: CurrencyCode, locale: string): Intl.NumberFormat {
   return f;
 }
 
+/** The plain decimal of an amount, as dinero's toDecimal gives it (integer digits, no float). */
+export function minorToDecimal(amountMinor: number, code: CurrencyCode): string {
+  return shiftPoint(String(amountMinor), currencyExponent(code));
+}
+
+/** dinero's own toDecimal; minorToDecimal is its fast equivalent for the per-line hot path (tested equal). */
+export function dineroDecimal(amountMinor: number, code: CurrencyCode): string {
+  return toDecimal(toDinero(amountMinor, code));
+}
+
 /** Intl formats the decimal string itself (exact), never a float of the amount. */
 export function moneyOf(amountMinor: number, code: CurrencyCode, locale = 'en-US'): Money {
-  const decimal = toDecimal(toDinero(amountMinor, code));
+  if (!Number.isSafeInteger(amountMinor)) throw new RangeError(`amount ${amountMinor} is not a whole number of minor units`);
+  const decimal = minorToDecimal(amountMinor, code);
   const f = formatter(code, locale) as Intl.NumberFormat & { format(value: string): string };
   return { amountMinor, currency: code, decimal, formatted: f.format(decimal) };
 }

@@ -1,0 +1,78 @@
+export {
+  priceQuote,
+  safePriceQuote,
+  priceQuoteUnchecked,
+  validateQuoteInput,
+  QuoteValidationError,
+  ROUNDING_RULE,
+  type PricedQuote,
+  type QuoteLine,
+  type PricedLine,
+  type UnpricedLine,
+  type PayoutRate,
+  type MetalTotal,
+  type QuoteIssue,
+  type QuoteResult,
+} from './pricing';
+export {
+  quoteInputSchema,
+  quoteLineSchema,
+  weightLineSchema,
+  coinLineSchema,
+  faceValueLineSchema,
+  fineWeightLineSchema,
+  rateRuleSchema,
+  ratesSchema,
+  spotSchema,
+  assumedFinenessSchema,
+  weightSchema,
+  decimalField,
+  finenessField,
+  MAX_LINE_WEIGHT_GRAMS,
+  MAX_SPOT_PER_TROY_OUNCE,
+  type QuoteInput,
+  type ValidQuoteInput,
+  type ValidQuoteLine,
+} from './pricing.schema';
+export {
+  parseMark,
+  parseMarkUncached,
+  normaliseMark,
+  resolveMarkForMetal,
+  isMarkKey,
+  markedFinenessOfKey,
+  markCandidateByKey,
+  MARK_CATALOGUE,
+  type MarkReading,
+  type MarkCandidate,
+  type MarkKind,
+} from './marks';
+export { COIN_CATALOGUE, COIN_TYPES, FACE_VALUE_CLASSES, coinSpec, faceValueClass, type CoinSpec, type FaceValueClass } from './coins';
+export {
+  DEFAULT_RATES,
+  RATE_CATEGORIES,
+  LINE_CATEGORIES,
+  resolveRateCategory,
+  mergeRates,
+  type Rates,
+  type RateRule,
+  type RateCategory,
+  type LineCategory,
+} from './rates';
+export { METALS, METAL_LABELS, type Metal } from './metals';
+export {
+  WEIGHT_UNITS,
+  WEIGHT_UNIT_LABELS,
+  GRAMS_PER_TROY_OUNCE,
+  GRAMS_PER_PENNYWEIGHT,
+  GRAMS_PER_GRAIN,
+  GRAMS_PER_AVOIRDUPOIS_OUNCE,
+  AVOIRDUPOIS_REFUSAL,
+  readWeightUnit,
+  toGrams,
+  fromGrams,
+  convertWeight,
+  type WeightUnit,
+} from './units';
+export { CURRENCY_CODES, DEFAULT_CURRENCY, moneyOf, formatMinor, type Money, type CurrencyCode } from './money';
+export type { FinenessSource, RateSource } from './resolve';

@@ -1,0 +1,264 @@
+import { coinSpec, faceValueClass } from './coins';
+import { Dec, HUNDRED, ZERO, parseRatio, ratioValue, type Ratio } from './decimal';
+import { parseMark, resolveMarkForMetal, type MarkReading } from './marks';
+import type { Metal } from './metals';
+import { DEFAULT_RATES, resolveRateCategory, type RateCategory, type RateRule } from './rates';
+import { TROY_OUNCE_GRAMS } from './units';
+import type {
+  ValidCoinLine,
+  ValidFaceValueLine,
+  ValidFineWeightLine,
+  ValidQuoteInput,
+  ValidQuoteLine,
+  ValidWeightLine,
+} from './pricing.schema';
+
+export interface Issue {
+  path: (string | number)[];
+  message: string;
+}
+
+export type FinenessSource = 'mark' | 'assumed' | 'test' | 'catalogue' | 'face-value' | 'assay';
+export type RateSource = 'default' | 'store' | 'ticket-override' | 'line-override';
+
+export interface WeightBreakdown {
+  grossGrams: Dec;
+  tareGrams: Dec;
+  deductionsGrams: Dec;
+  netGrams: Dec;
+}
+
+export interface PricedResolution {
+  status: 'priced';
+  metal: Metal;
+  rateCategory: RateCategory;
+  rule: RateRule;
+  ruleSource: RateSource;
+  /** Path of the rule in the input, to name it in errors. */
+  rulePath: (string | number)[];
+  /** Fine weight in troy ounces as the exact ratio n/d. */
+  fineOzt: Ratio;
+  marked?: Ratio;
+  markedExact?: string;
+  paidOn?: Ratio;
+  paidOnExact?: string;
+  finenessSource: FinenessSource;
+  reading?: MarkReading;
+  weights?: WeightBreakdown;
+  grossGramsTotal?: Dec;
+  notes: string[];
+}
+
+export interface UnpricedResolution {
+  status: 'needs-test' | 'not-buyable';
+  reading: MarkReading;
+  message: string;
+  weights?: WeightBreakdown;
+}
+
+export type LineResolution = PricedResolution | UnpricedResolution | { status: 'invalid' };
+
+type QuoteContext = Pick<ValidQuoteInput, 'rates' | 'rateOverride' | 'assumedFineness'>;
+
+function effectiveRule(
+  line: ValidQuoteLine,
+  index: number,
+  category: RateCategory,
+  quote: QuoteContext,
+): { rule: RateRule; source: RateSource; path: (string | number)[] } {
+  if (line.rateOverride) return { rule: line.rateOverride, source: 'line-override', path: ['lines', index, 'rateOverride'] };
+  if (quote.rateOverride) return { rule: quote.rateOverride, source: 'ticket-override', path: ['rateOverride'] };
+  const stored = quote.rates?.[category];
+  if (stored) return { rule: stored, source: 'store', path: ['rates', category] };
+  return { rule: DEFAULT_RATES[category], source: 'default', path: ['rates', category] };
+}
+
+function weighLine(line: ValidWeightLine, index: number, issues: Issue[] | null): WeightBreakdown | null {
+  const gross = new Dec(line.grossWeight.grams);
+  const tare = line.tare ? new Dec(line.tare.grams) : ZERO;
+  if (tare.gte(gross)) {
+    issues?.push({ path: ['lines', index, 'tare', 'value'], message: 'tare must be less than the gross weight' });
+    return null;
+  }
+  const afterTare = gross.minus(tare);
+  let deductions = ZERO;
+  let ok = true;
+  line.deductions.forEach((d, j) => {
+    const grams = d.kind === 'grams' ? new Dec(d.value) : afterTare.mul(d.value).div(HUNDRED);
+    if (d.kind === 'grams' && grams.gt(gross)) {
+      issues?.push({ path: ['lines', index, 'deductions', j, 'value'], message: `deduction of ${d.value} g is larger than the gross weight (${gross.toFixed()} g)` });
+      ok = false;
+    }
+    deductions = deductions.plus(grams);
+  });
+  if (!ok) return null;
+  const net = afterTare.minus(deductions);
+  if (net.lte(0)) {
+    issues?.push({ path: ['lines', index, 'deductions'], message: `tare and deductions leave no metal (net ${net.toFixed()} g)` });
+    return null;
+  }
+  return { grossGrams: gross, tareGrams: tare, deductionsGrams: deductions, netGrams: net };
+}
+
+function priced(
+  line: ValidQuoteLine,
+  index: number,
+  quote: QuoteContext,
+  metal: Metal,
+  category: RateCategory,
+  rest: Omit<PricedResolution, 'status' | 'metal' | 'rateCategory' | 'rule' | 'ruleSource' | 'rulePath'>,
+): PricedResolution {
+  const { rule, source, path } = effectiveRule(line, index, category, quote);
+  return { status: 'priced', metal, rateCategory: category, rule, ruleSource: source, rulePath: path, ...rest };
+}
+
+function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteContext, issues: Issue[] | null): LineResolution {
+  const weights = weighLine(line, index, issues);
+  if (!weights) return { status: 'invalid' };
+  const reading = line.mark !== undefined ? parseMark(line.mark) : undefined;
+  const notes: string[] = [];
+
+  if (line.fineness !== undefined) {
+    const metal = line.metal ?? (reading && (reading.kind === 'solid' || reading.kind === 'filled') ? reading.metal : undefined);
+    if (!metal) {
+      issues?.push({ path: ['lines', index, 'metal'], message: 'say which metal the tested fineness is for' });
+      return { status: 'invalid' };
+    }
+    if (reading?.metal && reading.metal !== metal) notes.push(`Marked ${reading.label}; priced on the test as ${metal}.`);
+    const tested = parseRatio(line.fineness);
+    const fineGramsN = weights.netGrams.mul(tested.n);
+    return priced(line, index, quote, metal, resolveRateCategory(metal, line.category, ratioValue(tested)), {
+      fineOzt: { n: fineGramsN, d: tested.d.mul(TROY_OUNCE_GRAMS) },
+      marked: tested,
+      markedExact: line.fineness,
+      paidOn: tested,
+      paidOnExact: line.fineness,
+      finenessSource: 'test',
+      reading,
+      weights,
+      notes,
+    });
+  }
+
+  if (!reading) {
+    issues?.push({ path: ['lines', index, 'mark'], message: 'give the purity mark, or a tested fineness with its metal' });
+    return { status: 'invalid' };
+  }
+  if (reading.kind === 'plated' || reading.kind === 'no-precious') {
+    return { status: 'not-buyable', reading, message: `${reading.label}: nothing to buy as precious metal`, weights };
+  }
+  const chosen = resolveMarkForMetal(reading, line.metal);
+  if (!chosen) {
+    if ((reading.kind === 'solid' || reading.kind === 'filled') && line.metal && reading.metal !== line.metal) {
+      issues?.push({ path: ['lines', index, 'metal'], message: `the mark reads ${reading.label}, but the line says ${line.metal}; test it and give the fineness` });
+      return { status: 'invalid' };
+    }
+    return { status: 'needs-test', reading, message: reading.label, weights };
+  }
+  const marked = parseRatio(chosen.finenessExact);
+  const assumed = quote.assumedFineness[chosen.key];
+  const paidOn = assumed !== undefined ? parseRatio(assumed) : marked;
+  if (reading.kind === 'needs-test') notes.push(`Read as ${chosen.label} because the line says ${chosen.metal}.`);
+  return priced(line, index, quote, chosen.metal, resolveRateCategory(chosen.metal, line.category, ratioValue(marked), reading.kind === 'filled'), {
+    fineOzt: { n: weights.netGrams.mul(paidOn.n), d: paidOn.d.mul(TROY_OUNCE_GRAMS) },
+    marked,
+    markedExact: chosen.finenessExact,
+    paidOn,
+    paidOnExact: assumed ?? chosen.finenessExact,
+    finenessSource: assumed !== undefined ? 'assumed' : 'mark',
+    reading,
+    weights,
+    notes,
+  });
+}
+
+function resolveCoinLine(line: ValidCoinLine, index: number, quote: QuoteContext): LineResolution {
+  const spec = coinSpec(line.coinType)!;
+  const fineness = parseRatio(spec.fineness);
+  return priced(line, index, quote, spec.metal, resolveRateCategory(spec.metal, spec.category, ratioValue(fineness)), {
+    fineOzt: { n: new Dec(spec.fineTroyOunces).mul(line.count), d: new Dec(1) },
+    marked: fineness,
+    markedExact: spec.fineness,
+    paidOn: fineness,
+    paidOnExact: spec.fineness,
+    finenessSource: 'catalogue',
+    grossGramsTotal: new Dec(spec.grossWeightGrams).mul(line.count),
+    notes: [`${line.count} x ${spec.fineTroyOunces} ozt stated fine content (${spec.source}).`],
+  });
+}
+
+function resolveFaceValueLine(line: ValidFaceValueLine, index: number, quote: QuoteContext, issues: Issue[] | null): LineResolution {
+  const cls = faceValueClass(line.coinClass)!;
+  const perDollar = cls.troyOuncesPerDollarFace[line.basis];
+  if (perDollar === undefined) {
+    issues?.push({ path: ['lines', index, 'basis'], message: `${line.coinClass} has no ${line.basis} figure; use ${Object.keys(cls.troyOuncesPerDollarFace).join(' or ')}` });
+    return { status: 'invalid' };
+  }
+  const face = new Dec(line.faceValue);
+  if (!face.mod(cls.faceStep).isZero()) {
+    issues?.push({ path: ['lines', index, 'faceValue'], message: `must be a multiple of ${cls.faceStep} for ${line.coinClass} coin` });
+    return { status: 'invalid' };
+  }
+  const fineness = parseRatio(cls.fineness);
+  return priced(line, index, quote, cls.metal, resolveRateCategory(cls.metal, 'coin', ratioValue(fineness)), {
+    fineOzt: { n: face.mul(perDollar), d: new Dec(1) },
+    marked: fineness,
+    markedExact: cls.fineness,
+    paidOn: fineness,
+    paidOnExact: cls.fineness,
+    finenessSource: 'face-value',
+    notes: [
+      `${line.faceValue} face x ${perDollar} ozt per 1.00 face (${line.basis === 'common-practice' ? 'common practice for circulated coin' : 'mint weight'}).`,
+    ],
+  });
+}
+
+function resolveFineWeightLine(line: ValidFineWeightLine, index: number, quote: QuoteContext): LineResolution {
+  return priced(line, index, quote, line.metal, resolveRateCategory(line.metal, line.category, new Dec(1)), {
+    fineOzt: { n: new Dec(line.fineWeight.grams), d: TROY_OUNCE_GRAMS },
+    finenessSource: 'assay',
+    notes: [],
+  });
+}
+
+export function resolveLine(line: ValidQuoteLine, index: number, quote: QuoteContext, issues: Issue[] | null = null): LineResolution {
+  switch (line.kind) {
+    case 'weight':
+      return resolveWeightLine(line, index, quote, issues);
+    case 'coin':
+      return resolveCoinLine(line, index, quote);
+    case 'face-value':
+      return resolveFaceValueLine(line, index, quote, issues);
+    case 'fine-weight':
+      return resolveFineWeightLine(line, index, quote);
+  }
+}
+
+/** Cross-field rules zod cannot see field by field: net weight, metal against mark, spot per metal, rates against spot. */
+export function checkQuoteConsistency(quote: ValidQuoteInput): Issue[] {
+  const issues: Issue[] = [];
+  const missingSpot = new Map<Metal, number>();
+  quote.lines.forEach((line, index) => {
+    const r = resolveLine(line, index, quote, issues);
+    if (r.status !== 'priced') return;
+    const spot = quote.spot[r.metal];
+    if (spot === undefined) {
+      if (!missingSpot.has(r.metal)) missingSpot.set(r.metal, index);
+      return;
+    }
+    if (r.rule.basis === 'under-spot' && new Dec(r.rule.amountPerTroyOunce).gt(spot)) {
+      issues.push({
+        path: [...r.rulePath, 'amountPerTroyOunce'],
+        message: `amount under spot (${r.rule.amountPerTroyOunce}) is more than the ${r.metal} spot (${spot}); the payout would be negative`,
+      });
+    }
+  });
+  for (const [metal, index] of missingSpot) {
+    issues.push({ path: ['spot', metal], message: `a ${metal} spot price per troy ounce is needed: line ${index + 1} is ${metal}` });
+  }
+  const seen = new Set<string>();
+  return issues.filter((i) => {
+    const id = `${i.path.join('.')}|${i.message}`;
+    return seen.has(id) ? false : (seen.add(id), true);
+  });
+}
