@@ -33,7 +33,7 @@ const newStaffSchema = z
 type NewStaff = z.infer<typeof newStaffSchema>;
 
 export default function StaffAdmin({ stores, currentUserId }: { stores: StoreOption[]; currentUserId: string }) {
-  const { data, mutate, error } = useSWR<{ users: UserRow[] }>('/api/admin/users', (u: string) => fetchJson(u));
+  const { data, mutate, error } = useSWR('/api/admin/users', (u: string) => fetchJson<{ users: UserRow[] }>(u));
   const [message, setMessage] = useState<string | null>(null);
   const {
     register,
