@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import {
+  bigint,
   bigserial,
   boolean,
   check,
@@ -7,6 +8,7 @@ import {
   index,
   integer,
   jsonb,
+  numeric,
   pgTable,
   primaryKey,
   text,
@@ -230,4 +232,290 @@ export const signInFailures = pgTable(
     at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [index('sign_in_failures_email_idx').on(t.emailKey, t.at), index('sign_in_failures_address_idx').on(t.clientAddress, t.at)],
+);
+
+// ---------------------------------------------------------------------------
+// The counter: spot prices, tickets and their lines, approvals, drawers, payments, photos.
+// Money is integer minor units (bigint, read as number); weights, fineness and prices are numeric
+// and stay strings until they reach the pricing engine's decimal helpers.
+// ---------------------------------------------------------------------------
+
+export const METAL_VALUES = ['gold', 'silver', 'platinum', 'palladium'] as const;
+
+/** Every spot entry is kept: who entered it, when and the value. The newest per metal is the one in force. */
+export const spotPrices = pgTable(
+  'spot_prices',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    metal: text('metal', { enum: METAL_VALUES }).notNull(),
+    pricePerTroyOunce: numeric('price_per_troy_ounce', { precision: 14, scale: 4 }).notNull(),
+    currency: text('currency').notNull(),
+    enteredBy: text('entered_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    enteredAt: timestamp('entered_at', { withTimezone: true }).notNull().defaultNow(),
+    source: text('source').notNull().default('manual'),
+  },
+  (t) => [
+    index('spot_prices_store_metal_at_idx').on(t.storeId, t.metal, t.enteredAt),
+    check('spot_prices_metal_valid', sql`${t.metal} in ('gold', 'silver', 'platinum', 'palladium')`),
+    check('spot_prices_positive', sql`${t.pricePerTroyOunce} > 0`),
+    check('spot_prices_currency_format', sql`${t.currency} ~ '^[A-Z]{3}$'`),
+  ],
+);
+
+/** The next ticket number of each store; numbers are sequential per store and never reused. */
+export const ticketCounters = pgTable('ticket_counters', {
+  storeId: text('store_id')
+    .primaryKey()
+    .references(() => stores.id, { onDelete: 'cascade' }),
+  lastNumber: integer('last_number').notNull().default(0),
+});
+
+export const TICKET_STATES = ['draft', 'quoted', 'accepted', 'declined', 'paid', 'voided'] as const;
+export type TicketState = (typeof TICKET_STATES)[number];
+export const PAYMENT_METHODS = ['cash', 'check', 'electronic'] as const;
+
+export const tickets = pgTable(
+  'tickets',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    number: integer('number').notNull(),
+    sellerId: text('seller_id')
+      .notNull()
+      .references(() => sellers.id, { onDelete: 'restrict' }),
+    clerkId: text('clerk_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    state: text('state', { enum: TICKET_STATES }).notNull().default('draft'),
+    currency: text('currency').notNull(),
+    /** A raise of every line's rate, in percentage points of melt, asked for by the clerk. */
+    ticketRaisePoints: numeric('ticket_raise_points', { precision: 6, scale: 2 }).notNull().default('0'),
+    doNotBuyOverrideBy: text('do_not_buy_override_by').references(() => users.id, { onDelete: 'restrict' }),
+    doNotBuyOverrideReason: text('do_not_buy_override_reason'),
+    /** What the quote was priced on: spot entries (id, value, time), rates and assumed finenesses. Frozen at acceptance. */
+    pricingBasis: jsonb('pricing_basis'),
+    meltValueMinor: bigint('melt_value_minor', { mode: 'number' }).notNull().default(0),
+    payoutMinor: bigint('payout_minor', { mode: 'number' }).notNull().default(0),
+    marginMinor: bigint('margin_minor', { mode: 'number' }).notNull().default(0),
+    quotedAt: timestamp('quoted_at', { withTimezone: true }),
+    acceptedAt: timestamp('accepted_at', { withTimezone: true }),
+    declinedAt: timestamp('declined_at', { withTimezone: true }),
+    paidAt: timestamp('paid_at', { withTimezone: true }),
+    voidedAt: timestamp('voided_at', { withTimezone: true }),
+    voidedBy: text('voided_by').references(() => users.id, { onDelete: 'restrict' }),
+    voidReason: text('void_reason'),
+    signatureSvg: text('signature_svg'),
+    ownershipStatement: text('ownership_statement'),
+    holdUntil: date('hold_until', { mode: 'string' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    uniqueIndex('tickets_store_number_unique').on(t.storeId, t.number),
+    index('tickets_seller_idx').on(t.sellerId, t.createdAt),
+    index('tickets_store_state_idx').on(t.storeId, t.state),
+    check('tickets_state_valid', sql`${t.state} in ('draft', 'quoted', 'accepted', 'declined', 'paid', 'voided')`),
+    check('tickets_number_positive', sql`${t.number} > 0`),
+    check('tickets_amounts_sane', sql`${t.meltValueMinor} >= 0 and ${t.payoutMinor} >= 0 and ${t.marginMinor} = ${t.meltValueMinor} - ${t.payoutMinor}`),
+    check('tickets_accepted_has_signature', sql`${t.acceptedAt} is null or (${t.signatureSvg} is not null and ${t.ownershipStatement} is not null and ${t.pricingBasis} is not null)`),
+    check('tickets_state_times', sql`(${t.state} <> 'quoted' or ${t.quotedAt} is not null)
+      and (${t.state} <> 'accepted' or ${t.acceptedAt} is not null)
+      and (${t.state} <> 'declined' or ${t.declinedAt} is not null)
+      and (${t.state} <> 'paid' or (${t.paidAt} is not null and ${t.acceptedAt} is not null and ${t.holdUntil} is not null))
+      and (${t.state} <> 'voided' or (${t.voidedAt} is not null and ${t.voidedBy} is not null and ${t.voidReason} is not null))`),
+    check('tickets_override_reason', sql`${t.doNotBuyOverrideBy} is null or ${t.doNotBuyOverrideReason} is not null`),
+  ],
+);
+
+export const TEST_METHODS = ['none', 'acid', 'electronic', 'xrf', 'specific-gravity', 'magnet'] as const;
+export type TestMethod = (typeof TEST_METHODS)[number];
+
+export const ticketLines = pgTable(
+  'ticket_lines',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    ticketId: text('ticket_id')
+      .notNull()
+      .references(() => tickets.id, { onDelete: 'cascade' }),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    position: integer('position').notNull(),
+    /** The line as the pricing engine takes it (weights, mark, fineness, coin type and count, deductions). */
+    input: jsonb('input').notNull(),
+    description: text('description').notNull(),
+    testMethod: text('test_method', { enum: TEST_METHODS }).notNull().default('none'),
+    testResult: text('test_result'),
+    note: text('note'),
+    /** Raise of this line's rate, in percentage points of melt, asked for by the clerk. */
+    raisePoints: numeric('raise_points', { precision: 6, scale: 2 }).notNull().default('0'),
+    // Priced by the server with the shared engine; kept for queries, receipts and review.
+    metal: text('metal', { enum: METAL_VALUES }),
+    markedFineness: numeric('marked_fineness', { precision: 10, scale: 6 }),
+    paidOnFineness: numeric('paid_on_fineness', { precision: 10, scale: 6 }),
+    grossWeightGrams: numeric('gross_weight_grams', { precision: 14, scale: 4 }),
+    netWeightGrams: numeric('net_weight_grams', { precision: 14, scale: 4 }),
+    fineWeightGrams: numeric('fine_weight_grams', { precision: 14, scale: 4 }),
+    fineWeightTroyOunces: numeric('fine_weight_troy_ounces', { precision: 14, scale: 6 }),
+    spotPerTroyOunce: numeric('spot_per_troy_ounce', { precision: 14, scale: 4 }),
+    rateLabel: text('rate_label'),
+    meltValueMinor: bigint('melt_value_minor', { mode: 'number' }).notNull().default(0),
+    payoutMinor: bigint('payout_minor', { mode: 'number' }).notNull().default(0),
+    marginMinor: bigint('margin_minor', { mode: 'number' }).notNull().default(0),
+    /** Null while the line cannot be priced (a mark that needs a test, a spot missing). */
+    pricingProblem: text('pricing_problem'),
+    tagNumber: text('tag_number'),
+    holdUntil: date('hold_until', { mode: 'string' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    uniqueIndex('ticket_lines_position_unique').on(t.ticketId, t.position),
+    uniqueIndex('ticket_lines_tag_unique').on(t.storeId, t.tagNumber),
+    check('ticket_lines_test_method_valid', sql`${t.testMethod} in ('none', 'acid', 'electronic', 'xrf', 'specific-gravity', 'magnet')`),
+    check('ticket_lines_amounts_sane', sql`${t.meltValueMinor} >= 0 and ${t.payoutMinor} >= 0 and ${t.marginMinor} = ${t.meltValueMinor} - ${t.payoutMinor}`),
+    check('ticket_lines_fineness_range', sql`${t.paidOnFineness} is null or (${t.paidOnFineness} > 0 and ${t.paidOnFineness} <= 1)`),
+    check('ticket_lines_description_not_blank', sql`length(trim(${t.description})) > 0`),
+  ],
+);
+
+export const APPROVAL_STATES = ['pending', 'approved', 'rejected'] as const;
+
+/** A rate raise beyond the clerk's limit waits here for a manager. */
+export const rateApprovals = pgTable(
+  'rate_approvals',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    ticketId: text('ticket_id')
+      .notNull()
+      .references(() => tickets.id, { onDelete: 'cascade' }),
+    lineId: text('line_id').references(() => ticketLines.id, { onDelete: 'cascade' }),
+    requestedBy: text('requested_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    raisePoints: numeric('raise_points', { precision: 6, scale: 2 }).notNull(),
+    state: text('state', { enum: APPROVAL_STATES }).notNull().default('pending'),
+    decidedBy: text('decided_by').references(() => users.id, { onDelete: 'restrict' }),
+    decidedAt: timestamp('decided_at', { withTimezone: true }),
+    note: text('note'),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index('rate_approvals_store_state_idx').on(t.storeId, t.state),
+    check('rate_approvals_state_valid', sql`${t.state} in ('pending', 'approved', 'rejected')`),
+    check('rate_approvals_decided', sql`(${t.state} = 'pending') = (${t.decidedBy} is null)`),
+    check('rate_approvals_points_positive', sql`${t.raisePoints} > 0`),
+  ],
+);
+
+/** A clerk's cash drawer: opened with a float, every cash payout recorded against it, closed with a count. */
+export const cashDrawers = pgTable(
+  'cash_drawers',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    clerkId: text('clerk_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    currency: text('currency').notNull(),
+    floatMinor: bigint('float_minor', { mode: 'number' }).notNull(),
+    openedAt: timestamp('opened_at', { withTimezone: true }).notNull().defaultNow(),
+    closedAt: timestamp('closed_at', { withTimezone: true }),
+    closedBy: text('closed_by').references(() => users.id, { onDelete: 'restrict' }),
+    countedMinor: bigint('counted_minor', { mode: 'number' }),
+    expectedMinor: bigint('expected_minor', { mode: 'number' }),
+  },
+  (t) => [
+    uniqueIndex('cash_drawers_one_open_per_clerk').on(t.clerkId).where(sql`${t.closedAt} is null`),
+    check('cash_drawers_float_nonnegative', sql`${t.floatMinor} >= 0`),
+    check('cash_drawers_closed_complete', sql`(${t.closedAt} is null) = (${t.countedMinor} is null and ${t.closedBy} is null and ${t.expectedMinor} is null)`),
+  ],
+);
+
+export const PAYMENT_KINDS = ['payout', 'reversal'] as const;
+export const PAYMENT_STATES = ['pending', 'completed', 'failed'] as const;
+
+/** Money paid to a seller, and its reversal when a paid ticket is voided. Never deleted. */
+export const payments = pgTable(
+  'payments',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    ticketId: text('ticket_id')
+      .notNull()
+      .references(() => tickets.id, { onDelete: 'restrict' }),
+    kind: text('kind', { enum: PAYMENT_KINDS }).notNull().default('payout'),
+    reversesPaymentId: text('reverses_payment_id'),
+    method: text('method', { enum: PAYMENT_METHODS }).notNull(),
+    state: text('state', { enum: PAYMENT_STATES }).notNull(),
+    amountMinor: bigint('amount_minor', { mode: 'number' }).notNull(),
+    currency: text('currency').notNull(),
+    drawerId: text('drawer_id').references(() => cashDrawers.id, { onDelete: 'restrict' }),
+    checkNumber: text('check_number'),
+    failureReason: text('failure_reason'),
+    createdBy: text('created_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    // A ticket is paid once: at most one payout that is pending or completed, enforced by the database.
+    uniqueIndex('payments_one_live_payout_per_ticket').on(t.ticketId).where(sql`${t.kind} = 'payout' and ${t.state} in ('pending', 'completed')`),
+    uniqueIndex('payments_one_reversal_per_payment').on(t.reversesPaymentId),
+    index('payments_drawer_idx').on(t.drawerId),
+    check('payments_kind_valid', sql`${t.kind} in ('payout', 'reversal')`),
+    check('payments_method_valid', sql`${t.method} in ('cash', 'check', 'electronic')`),
+    check('payments_state_valid', sql`${t.state} in ('pending', 'completed', 'failed')`),
+    check('payments_amount_positive', sql`${t.amountMinor} > 0`),
+    check('payments_cash_has_drawer', sql`${t.method} <> 'cash' or ${t.drawerId} is not null`),
+    check('payments_check_has_number', sql`${t.method} <> 'check' or ${t.kind} <> 'payout' or ${t.checkNumber} is not null`),
+    check('payments_reversal_refers', sql`(${t.kind} = 'reversal') = (${t.reversesPaymentId} is not null)`),
+  ],
+);
+
+export const PHOTO_KINDS = ['id-document', 'item'] as const;
+
+/** Photos of ID documents and items, stored privately in S3-compatible storage. */
+export const photos = pgTable(
+  'photos',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    kind: text('kind', { enum: PHOTO_KINDS }).notNull(),
+    sellerId: text('seller_id').references(() => sellers.id, { onDelete: 'restrict' }),
+    ticketId: text('ticket_id').references(() => tickets.id, { onDelete: 'restrict' }),
+    lineId: text('line_id').references(() => ticketLines.id, { onDelete: 'set null' }),
+    objectKey: text('object_key').notNull(),
+    contentType: text('content_type').notNull(),
+    byteSize: integer('byte_size').notNull(),
+    sha256: text('sha256').notNull(),
+    uploadedBy: text('uploaded_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    uniqueIndex('photos_object_key_unique').on(t.objectKey),
+    check('photos_kind_valid', sql`${t.kind} in ('id-document', 'item')`),
+    check('photos_content_type_valid', sql`${t.contentType} in ('image/jpeg', 'image/png', 'image/webp')`),
+    check('photos_size_limit', sql`${t.byteSize} > 0 and ${t.byteSize} <= 10485760`),
+    check('photos_belongs', sql`${t.sellerId} is not null or ${t.ticketId} is not null`),
+  ],
 );

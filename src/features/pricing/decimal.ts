@@ -46,8 +46,17 @@ export function mulRatio(a: Ratio, b: Ratio): Ratio {
   return { n: a.n.mul(b.n), d: a.d.mul(b.d) };
 }
 
+const ratioValues = new WeakMap<Ratio, Dec>();
+
+/** n/d to 80 significant digits; for display and comparisons, never for money. */
 export function ratioValue(r: Ratio): Dec {
-  return r.d.eq(1) ? r.n : r.n.div(r.d);
+  if (r.d.eq(1)) return r.n;
+  let v = ratioValues.get(r);
+  if (v === undefined) {
+    v = r.n.div(r.d);
+    ratioValues.set(r, v);
+  }
+  return v;
 }
 
 export function compareRatio(a: Ratio, b: Ratio): number {

@@ -3,6 +3,7 @@ export {
   safePriceQuote,
   priceQuoteUnchecked,
   validateQuoteInput,
+  clearPricingCaches,
   QuoteValidationError,
   ROUNDING_RULE,
   type PricedQuote,

@@ -65,14 +65,22 @@ export function moneyOf(amountMinor: number, code: CurrencyCode, locale = 'en-US
   return { amountMinor, currency: code, decimal, formatted: f.format(decimal) };
 }
 
-export function sumMinor(amounts: readonly number[], code: CurrencyCode): number {
-  let total = toDinero(0, code);
-  for (const a of amounts) total = add(total, toDinero(a, code));
-  return toSnapshotAmount(total);
+/**
+ * Sum of integer minor units: the same integer addition dinero's number calculator performs,
+ * without allocating a Dinero per line (tested equal to dineroSum). Refuses to leave the safe-integer range.
+ */
+export function sumMinor(amounts: readonly number[]): number {
+  let total = 0;
+  for (const a of amounts) total += a;
+  if (!Number.isSafeInteger(total)) throw new RangeError('total is beyond exact integer range');
+  return total;
 }
 
-function toSnapshotAmount(d: Dinero<number>): number {
-  return toSnapshot(d).amount;
+/** Reference sum through dinero objects. */
+export function dineroSum(amounts: readonly number[], code: CurrencyCode): number {
+  let total = toDinero(0, code);
+  for (const a of amounts) total = add(total, toDinero(a, code));
+  return toSnapshot(total).amount;
 }
 
 export function formatMinor(amountMinor: number, code: CurrencyCode, locale = 'en-US'): string {

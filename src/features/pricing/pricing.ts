@@ -1,5 +1,5 @@
 import { coinSpec, faceValueClass } from './coins';
-import { Dec, HUNDRED, ZERO, parseRatio, ratioToFixedHalfUp, ratioValue, roundToMinorHalfUp, toFixedHalfUp, toTrimmed } from './decimal';
+import { Dec, HUNDRED, ZERO, parseRatio, ratioToFixedHalfUp, ratioValue, roundToMinorHalfUp, toFixedHalfUp, toTrimmed, type Ratio } from './decimal';
 import type { MarkReading } from './marks';
 import { METALS, type Metal } from './metals';
 import { minorPerMajor, moneyOf, sumMinor, type CurrencyCode, type Money } from './money';
@@ -126,27 +126,152 @@ function grams(d: Dec | undefined): string | null {
 }
 
 
+interface QuoteContext {
+  readonly quote: ValidQuoteInput;
+  readonly currency: CurrencyCode;
+  readonly locale: string;
+  readonly scale: Dec;
+  readonly spotMinor: ReadonlyMap<Metal, Dec>;
+}
+
+type LineBody = DistributiveOmit<QuoteLine, 'index'>;
+type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
+
+interface LineOutcome {
+  readonly body: LineBody;
+  readonly metal?: Metal;
+  readonly meltMinor: number;
+  readonly payoutMinor: number;
+  readonly fineOzt?: { readonly n: Dec; readonly d: Dec; readonly dKey: string };
+}
+
+const finenessDisplay = new Map<string, string>();
+
+function displayFineness(exact: string | undefined, r: Ratio | undefined): string | null {
+  if (exact === undefined || r === undefined) return null;
+  let shown = finenessDisplay.get(exact);
+  if (shown === undefined) {
+    shown = toTrimmed(ratioValue(r), FINENESS_PLACES);
+    if (finenessDisplay.size > 10_000) finenessDisplay.clear();
+    finenessDisplay.set(exact, shown);
+  }
+  return shown;
+}
+
+function priceLine(line: ValidQuoteLine, index: number, ctx: QuoteContext): LineOutcome {
+  const { quote, currency, locale, scale } = ctx;
+  const r = resolveLine(line, index, quote);
+  const base = line.description !== undefined ? { kind: line.kind, description: line.description } : { kind: line.kind };
+  if (r.status === 'invalid') throw new QuoteValidationError([{ path: `lines.${index}`, message: 'line did not pass validation' }]);
+  if (r.status !== 'priced') {
+    return {
+      body: {
+        ...base,
+        status: r.status,
+        mark: r.reading,
+        message: r.message,
+        grossWeightGrams: grams(r.weights?.grossGrams),
+        netWeightGrams: grams(r.weights?.netGrams),
+      },
+      meltMinor: 0,
+      payoutMinor: 0,
+    };
+  }
+  const spot = quote.spot[r.metal];
+  const spotMinor = ctx.spotMinor.get(r.metal);
+  if (spot === undefined || spotMinor === undefined) {
+    throw new QuoteValidationError([{ path: `spot.${r.metal}`, message: `a ${r.metal} spot price per troy ounce is needed` }]);
+  }
+  // melt = fine ozt x spot; fine ozt = n/d exactly; one rounding per amount (ROUNDING_RULE).
+  const { n, d } = r.fineOzt;
+  const meltExactN = n.mul(spotMinor);
+  const meltMinor = roundToMinorHalfUp(meltExactN, d);
+  let payoutMinor: number;
+  let payoutRate: Omit<PayoutRate, 'effectivePercentOfMelt'>;
+  if (r.rule.basis === 'percent-of-melt') {
+    payoutMinor = roundToMinorHalfUp(meltExactN.mul(parseRatio(r.rule.percent).n), d.mul(HUNDRED));
+    payoutRate = { basis: 'percent-of-melt', percent: r.rule.percent, source: r.ruleSource, rateCategory: r.rateCategory };
+  } else {
+    const perOunce = Dec.max(ZERO, new Dec(spot).minus(r.rule.amountPerTroyOunce));
+    payoutMinor = roundToMinorHalfUp(n.mul(perOunce).mul(scale), d);
+    payoutRate = { basis: 'under-spot', amountUnderSpotPerTroyOunce: r.rule.amountPerTroyOunce, source: r.ruleSource, rateCategory: r.rateCategory };
+  }
+  const marginMinor = meltMinor - payoutMinor;
+  const w = r.weights;
+  const body: LineBody = {
+    ...base,
+    status: 'priced',
+    metal: r.metal,
+    ...(r.reading ? { mark: r.reading } : {}),
+    markedFineness: displayFineness(r.markedExact, r.marked),
+    markedFinenessExact: r.markedExact ?? null,
+    paidOnFineness: displayFineness(r.paidOnExact, r.paidOn),
+    paidOnFinenessExact: r.paidOnExact ?? null,
+    finenessSource: r.finenessSource,
+    grossWeightGrams: grams(w?.grossGrams ?? r.grossGramsTotal),
+    tareGrams: grams(w?.tareGrams),
+    deductionsGrams: grams(w?.deductionsGrams),
+    netWeightGrams: grams(w?.netGrams),
+    fineWeightGrams: r.fineGrams ? ratioToFixedHalfUp(r.fineGrams.n, r.fineGrams.d, GRAMS_PLACES) : ratioToFixedHalfUp(n.mul(TROY_OUNCE_GRAMS), d, GRAMS_PLACES),
+    fineWeightTroyOunces: ratioToFixedHalfUp(n, d, TROY_OUNCE_PLACES),
+    spotPerTroyOunce: spot,
+    meltValue: moneyOf(meltMinor, currency, locale),
+    payoutRate: { ...payoutRate, effectivePercentOfMelt: percentOf(payoutMinor, meltMinor) },
+    payout: moneyOf(payoutMinor, currency, locale),
+    margin: moneyOf(marginMinor, currency, locale),
+    marginPercentOfMelt: percentOf(marginMinor, meltMinor),
+    ...(line.kind === 'coin' ? { coin: { coinType: line.coinType, count: line.count, label: coinSpec(line.coinType)!.label } } : {}),
+    ...(line.kind === 'face-value'
+      ? { faceValue: { coinClass: line.coinClass, faceValue: line.faceValue, basis: line.basis, label: faceValueClass(line.coinClass)!.label } }
+      : {}),
+    notes: r.notes,
+  };
+  return { body, metal: r.metal, meltMinor, payoutMinor, fineOzt: { n, d, dKey: d.toFixed() } };
+}
+
+/**
+ * Priced lines keyed by the line's content and everything of the ticket that can change its price.
+ * The counter re-prices on each keystroke, when all lines but one are unchanged.
+ */
+const lineCache = new Map<string, LineOutcome>();
+const LINE_CACHE_LIMIT = 4000;
+
+export function clearPricingCaches(): void {
+  lineCache.clear();
+  finenessDisplay.clear();
+}
+
+function deepFreeze<T>(value: T): T {
+  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const v of Object.values(value)) deepFreeze(v);
+  }
+  return value;
+}
+
 /**
  * Prices input that already passed quoteInputSchema. No zod in here: the counter calls it on every
- * keystroke after validating once. Output is plain JSON (strings and integer minor units).
+ * keystroke after validating once. Output is plain JSON (strings and integer minor units) and frozen.
  */
 export function priceQuoteUnchecked(quote: ValidQuoteInput): PricedQuote {
   const currency = quote.currency;
   const locale = quote.locale;
   const scale = minorPerMajor(currency);
-  const spotScaled = new Map<Metal, Dec>();
+  const spotMinor = new Map<Metal, Dec>();
   const spotShown: Partial<Record<Metal, SpotShown>> = {};
   for (const metal of METALS) {
     const s = quote.spot[metal];
     if (s === undefined) continue;
     const spot = new Dec(s);
-    spotScaled.set(metal, spot.mul(scale));
+    spotMinor.set(metal, spot.mul(scale));
     spotShown[metal] = {
       perTroyOunce: s,
       perGram: toFixedHalfUp(spot.div(TROY_OUNCE_GRAMS), 4),
       perPennyweight: toFixedHalfUp(spot.mul(GRAMS_PER_PENNYWEIGHT).div(TROY_OUNCE_GRAMS), 4),
     };
   }
+  const ctx: QuoteContext = { quote, currency, locale, scale, spotMinor };
+  const ticketKey = JSON.stringify([currency, locale, quote.spot, quote.rates ?? null, quote.rateOverride ?? null, quote.assumedFineness]);
 
   const lines: QuoteLine[] = [];
   const meltAll: number[] = [];
@@ -155,94 +280,39 @@ export function priceQuoteUnchecked(quote: ValidQuoteInput): PricedQuote {
   const byMetal = new Map<Metal, { fineOztByDenominator: Map<string, { n: Dec; d: Dec }>; melt: number[]; payout: number[] }>();
 
   quote.lines.forEach((line, index) => {
-    const r = resolveLine(line, index, quote);
-    const base: LineBase = line.description !== undefined ? { index, kind: line.kind, description: line.description } : { index, kind: line.kind };
-    if (r.status === 'invalid') throw new QuoteValidationError([{ path: `lines.${index}`, message: 'line did not pass validation' }]);
-    if (r.status !== 'priced') {
-      lines.push({
-        ...base,
-        status: r.status,
-        mark: r.reading,
-        message: r.message,
-        grossWeightGrams: grams(r.weights?.grossGrams),
-        netWeightGrams: grams(r.weights?.netGrams),
-      });
-      return;
+    const key = `${ticketKey}|${JSON.stringify(line)}`;
+    let outcome = lineCache.get(key);
+    if (outcome === undefined) {
+      outcome = deepFreeze(priceLine(line, index, ctx));
+      if (lineCache.size >= LINE_CACHE_LIMIT) lineCache.clear();
+      lineCache.set(key, outcome);
     }
-    const spot = quote.spot[r.metal];
-    const spotMinor = spotScaled.get(r.metal);
-    if (spot === undefined || spotMinor === undefined) {
-      throw new QuoteValidationError([{ path: `spot.${r.metal}`, message: `a ${r.metal} spot price per troy ounce is needed` }]);
-    }
-    const { n, d } = r.fineOzt;
-    const meltExactN = n.mul(spotMinor);
-    const meltMinor = roundToMinorHalfUp(meltExactN, d);
-    let payoutMinor: number;
-    let payoutRate: Omit<PayoutRate, 'effectivePercentOfMelt'>;
-    if (r.rule.basis === 'percent-of-melt') {
-      payoutMinor = roundToMinorHalfUp(meltExactN.mul(parseRatio(r.rule.percent).n), d.mul(HUNDRED));
-      payoutRate = { basis: 'percent-of-melt', percent: r.rule.percent, source: r.ruleSource, rateCategory: r.rateCategory };
-    } else {
-      const perOunce = Dec.max(ZERO, new Dec(spot).minus(r.rule.amountPerTroyOunce));
-      payoutMinor = roundToMinorHalfUp(n.mul(perOunce).mul(scale), d);
-      payoutRate = { basis: 'under-spot', amountUnderSpotPerTroyOunce: r.rule.amountPerTroyOunce, source: r.ruleSource, rateCategory: r.rateCategory };
-    }
-    const marginMinor = meltMinor - payoutMinor;
-    meltAll.push(meltMinor);
-    payoutAll.push(payoutMinor);
-    let metalTotal = byMetal.get(r.metal);
+    lines.push({ index, ...outcome.body } as QuoteLine);
+    if (outcome.metal === undefined || outcome.fineOzt === undefined) return;
+    meltAll.push(outcome.meltMinor);
+    payoutAll.push(outcome.payoutMinor);
+    let metalTotal = byMetal.get(outcome.metal);
     if (!metalTotal) {
       metalTotal = { fineOztByDenominator: new Map(), melt: [], payout: [] };
-      byMetal.set(r.metal, metalTotal);
+      byMetal.set(outcome.metal, metalTotal);
     }
-    const dKey = d.toFixed();
+    const { n, d, dKey } = outcome.fineOzt;
     const group = metalTotal.fineOztByDenominator.get(dKey);
     if (group) group.n = group.n.plus(n);
     else metalTotal.fineOztByDenominator.set(dKey, { n, d });
-    metalTotal.melt.push(meltMinor);
-    metalTotal.payout.push(payoutMinor);
-
-    const w = r.weights;
-    const priced: PricedLine = {
-      ...base,
-      status: 'priced',
-      metal: r.metal,
-      ...(r.reading ? { mark: r.reading } : {}),
-      markedFineness: r.marked ? toTrimmed(ratioValue(r.marked), FINENESS_PLACES) : null,
-      markedFinenessExact: r.markedExact ?? null,
-      paidOnFineness: r.paidOn ? toTrimmed(ratioValue(r.paidOn), FINENESS_PLACES) : null,
-      paidOnFinenessExact: r.paidOnExact ?? null,
-      finenessSource: r.finenessSource,
-      grossWeightGrams: grams(w?.grossGrams ?? r.grossGramsTotal),
-      tareGrams: grams(w?.tareGrams),
-      deductionsGrams: grams(w?.deductionsGrams),
-      netWeightGrams: grams(w?.netGrams),
-      fineWeightGrams: ratioToFixedHalfUp(n.mul(TROY_OUNCE_GRAMS), d, GRAMS_PLACES),
-      fineWeightTroyOunces: ratioToFixedHalfUp(n, d, TROY_OUNCE_PLACES),
-      spotPerTroyOunce: spot,
-      meltValue: moneyOf(meltMinor, currency, locale),
-      payoutRate: { ...payoutRate, effectivePercentOfMelt: percentOf(payoutMinor, meltMinor) },
-      payout: moneyOf(payoutMinor, currency, locale),
-      margin: moneyOf(marginMinor, currency, locale),
-      marginPercentOfMelt: percentOf(marginMinor, meltMinor),
-      ...(line.kind === 'coin' ? { coin: { coinType: line.coinType, count: line.count, label: coinSpec(line.coinType)!.label } } : {}),
-      ...(line.kind === 'face-value'
-        ? { faceValue: { coinClass: line.coinClass, faceValue: line.faceValue, basis: line.basis, label: faceValueClass(line.coinClass)!.label } }
-        : {}),
-      notes: r.notes,
-    };
-    lines.push(priced);
+    metalTotal.melt.push(outcome.meltMinor);
+    metalTotal.payout.push(outcome.payoutMinor);
   });
 
-  const meltTotal = sumMinor(meltAll, currency);
-  const payoutTotal = sumMinor(payoutAll, currency);
+  const meltTotal = sumMinor(meltAll);
+  const payoutTotal = sumMinor(payoutAll);
   const marginTotal = meltTotal - payoutTotal;
   const metalTotals: MetalTotal[] = [];
   for (const metal of METALS) {
     const t = byMetal.get(metal);
     if (!t) continue;
-    const melt = sumMinor(t.melt, currency);
-    const payout = sumMinor(t.payout, currency);
+    const melt = sumMinor(t.melt);
+    const payout = sumMinor(t.payout);
     let fineOzt = ZERO;
     for (const g of t.fineOztByDenominator.values()) fineOzt = fineOzt.plus(g.d.eq(1) ? g.n : g.n.div(g.d));
     metalTotals.push({

@@ -38,6 +38,8 @@ export interface PricedResolution {
   rulePath: (string | number)[];
   /** Fine weight in troy ounces as the exact ratio n/d. */
   fineOzt: Ratio;
+  /** Fine weight in grams, when it is known without dividing by the troy ounce. */
+  fineGrams?: Ratio;
   marked?: Ratio;
   markedExact?: string;
   paidOn?: Ratio;
@@ -129,6 +131,7 @@ function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteCon
     const fineGramsN = weights.netGrams.mul(tested.n);
     return priced(line, index, quote, metal, resolveRateCategory(metal, line.category, ratioValue(tested)), {
       fineOzt: { n: fineGramsN, d: tested.d.mul(TROY_OUNCE_GRAMS) },
+      fineGrams: { n: fineGramsN, d: tested.d },
       marked: tested,
       markedExact: line.fineness,
       paidOn: tested,
@@ -161,6 +164,7 @@ function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteCon
   if (reading.kind === 'needs-test') notes.push(`Read as ${chosen.label} because the line says ${chosen.metal}.`);
   return priced(line, index, quote, chosen.metal, resolveRateCategory(chosen.metal, line.category, ratioValue(marked), reading.kind === 'filled'), {
     fineOzt: { n: weights.netGrams.mul(paidOn.n), d: paidOn.d.mul(TROY_OUNCE_GRAMS) },
+    fineGrams: { n: weights.netGrams.mul(paidOn.n), d: paidOn.d },
     marked,
     markedExact: chosen.finenessExact,
     paidOn,
@@ -216,6 +220,7 @@ function resolveFaceValueLine(line: ValidFaceValueLine, index: number, quote: Qu
 function resolveFineWeightLine(line: ValidFineWeightLine, index: number, quote: QuoteContext): LineResolution {
   return priced(line, index, quote, line.metal, resolveRateCategory(line.metal, line.category, new Dec(1)), {
     fineOzt: { n: new Dec(line.fineWeight.grams), d: TROY_OUNCE_GRAMS },
+    fineGrams: { n: new Dec(line.fineWeight.grams), d: new Dec(1) },
     finenessSource: 'assay',
     notes: [],
   });
