@@ -205,8 +205,10 @@ start_fakes() {
     [[ -f "$server" ]] || continue
     name="$(basename "$(dirname "$server")")"
     log "starting fake: $name"
-    npx tsx "$server" >"$ROOT/.local/fake-$name-$MODE.log" 2>&1 &
+    # tsx itself, not npx: npx does not pass SIGTERM on, which would leave the fake running after cleanup.
+    "$ROOT/node_modules/.bin/tsx" "$server" >"$ROOT/.local/fake-$name-$MODE.log" 2>&1 &
     PIDS+=($!)
+    if [[ "$name" == "s3" ]]; then wait_for_port "$S3_PORT" "fake s3"; fi
   done
 }
 

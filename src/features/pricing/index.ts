@@ -75,5 +75,6 @@ export {
   convertWeight,
   type WeightUnit,
 } from './units';
-export { CURRENCY_CODES, DEFAULT_CURRENCY, moneyOf, formatMinor, type Money, type CurrencyCode } from './money';
+export { CURRENCY_CODES, DEFAULT_CURRENCY, moneyOf, formatMinor, minorToDecimal, dineroDecimal, sumMinor, dineroSum, toDinero, type Money, type CurrencyCode } from './money';
 export type { FinenessSource, RateSource } from './resolve';
+export { US_MARKING_TOLERANCE } from './tolerances';

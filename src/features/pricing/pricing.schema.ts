@@ -37,29 +37,29 @@ export function decimalField(rules: DecimalRules = {}) {
     if (typeof value === 'string') text = value.trim();
     else if (typeof value === 'number') text = Number.isFinite(value) ? String(value) : String(value);
     else {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, message: 'is required: a decimal number written like "12.34"' });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: 'is required: a decimal number written like "12.34"' });
       return z.NEVER;
     }
     if (text.length > MAX_DECIMAL_LENGTH || !DECIMAL_PATTERN.test(text)) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, message: `must be a decimal number written like "12.34" (got "${text.slice(0, 40)}")` });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: `must be a decimal number written like "12.34" (got "${text.slice(0, 40)}")` });
       return z.NEVER;
     }
     const dot = text.indexOf('.');
     if (dot >= 0 && text.length - dot - 1 > MAX_DECIMAL_PLACES) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, message: `must have at most ${MAX_DECIMAL_PLACES} decimal places` });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: `must have at most ${MAX_DECIMAL_PLACES} decimal places` });
       return z.NEVER;
     }
     const d = new Dec(text);
     if (d.isNegative() && !d.isZero()) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, message: 'must not be negative' });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: 'must not be negative' });
       return z.NEVER;
     }
     if (rules.positive && d.isZero()) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, message: 'must be greater than 0' });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: 'must be greater than 0' });
       return z.NEVER;
     }
     if (rules.max !== undefined && d.gt(rules.max)) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, message: rules.maxMessage ?? `must be at most ${rules.max}` });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: rules.maxMessage ?? `must be at most ${rules.max}` });
       return z.NEVER;
     }
     return d.isZero() ? '0' : text.replace(/^-/, '');
@@ -80,12 +80,12 @@ export const spotField = decimalField({
 
 export const weightUnitField = z.unknown().transform((value, ctx): WeightUnit => {
   if (typeof value !== 'string') {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, message: 'is required: one of g, ozt, dwt, gr, kg' });
+    ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: 'is required: one of g, ozt, dwt, gr, kg' });
     return z.NEVER;
   }
   const read = readWeightUnit(value);
   if (!read.ok) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, message: read.message });
+    ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: read.message });
     return z.NEVER;
   }
   return read.unit;
@@ -97,7 +97,7 @@ export const weightSchema = z
   .transform((w, ctx) => {
     const grams = toGrams(w.value, w.unit);
     if (grams.gt(MAX_LINE_WEIGHT_GRAMS)) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['value'], message: 'is over 100 kg (100000 g): weigh it as several lines or check the unit' });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, path: ['value'], message: 'is over 100 kg (100000 g): weigh it as several lines or check the unit' });
       return z.NEVER;
     }
     return { value: w.value, unit: w.unit, grams: grams.toFixed() };
@@ -106,11 +106,11 @@ export const weightSchema = z
 export const countField = z.unknown().transform((value, ctx): number => {
   const n = typeof value === 'number' ? value : typeof value === 'string' && /^\s*\d+\s*$/.test(value) ? Number(value) : NaN;
   if (!Number.isInteger(n) || n < 1) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, message: 'must be a whole number of coins, at least 1' });
+    ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: 'must be a whole number of coins, at least 1' });
     return z.NEVER;
   }
   if (n > MAX_COIN_COUNT) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, message: `must be at most ${MAX_COIN_COUNT}` });
+    ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: `must be at most ${MAX_COIN_COUNT}` });
     return z.NEVER;
   }
   return n;
@@ -138,7 +138,7 @@ export const deductionSchema = z.object({
   reason: z.string().max(120).optional(),
 }).strict().superRefine((d, ctx) => {
   if (d.kind === 'percent' && new Dec(d.value).gt(100)) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['value'], message: 'a percentage deduction must be at most 100' });
+    ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, path: ['value'], message: 'a percentage deduction must be at most 100' });
   }
 });
 
@@ -157,7 +157,9 @@ export const weightLineSchema = z.object({
 
 export const coinLineSchema = z.object({
   kind: z.literal('coin'),
-  coinType: z.string().refine((t) => COIN_TYPES.includes(t), (t) => ({ message: `unknown coin type "${String(t).slice(0, 40)}"` })),
+  coinType: z.string().superRefine((t, ctx) => {
+    if (!COIN_TYPES.includes(t)) ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: `unknown coin type "${t.slice(0, 40)}"` });
+  }),
   count: countField,
   rateOverride: rateRuleSchema.optional(),
   description,
@@ -165,7 +167,9 @@ export const coinLineSchema = z.object({
 
 export const faceValueLineSchema = z.object({
   kind: z.literal('face-value'),
-  coinClass: z.string().refine((t) => FACE_VALUE_CLASS_IDS.includes(t), (t) => ({ message: `unknown coin class "${String(t).slice(0, 40)}"` })),
+  coinClass: z.string().superRefine((t, ctx) => {
+    if (!FACE_VALUE_CLASS_IDS.includes(t)) ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: `unknown coin class "${t.slice(0, 40)}"` });
+  }),
   faceValue: decimalField({ positive: true, max: '1000000', maxMessage: 'must be at most 1000000 face' }),
   basis: z.enum(['common-practice', 'mint-weight']).default('common-practice'),
   rateOverride: rateRuleSchema.optional(),
@@ -193,12 +197,12 @@ export const spotSchema = z.object({
 export const assumedFinenessSchema = z.record(z.string(), finenessField).superRefine((record, ctx) => {
   for (const [key, value] of Object.entries(record)) {
     if (!isMarkKey(key)) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: [key], message: `"${key.slice(0, 40)}" is not a mark key Cupel knows` });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, path: [key], message: `"${key.slice(0, 40)}" is not a mark key Cupel knows` });
       continue;
     }
     const marked = markedFinenessOfKey(key)!;
     if (compareRatio(parseRatio(value), parseRatio(marked)) > 0) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: [key], message: `is above the marked fineness of ${key} (${marked})` });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, path: [key], message: `is above the marked fineness of ${key} (${marked})` });
     }
   }
 });
@@ -208,7 +212,9 @@ export const quoteInputSchema = z.object({
   locale: z
     .string()
     .max(35)
-    .refine(isUsableLocale, { message: 'is not a locale this runtime can format money in' })
+    .superRefine((l, ctx) => {
+      if (!isUsableLocale(l)) ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: 'is not a locale this runtime can format money in' });
+    })
     .default('en-US'),
   spot: spotSchema.default({}),
   rates: ratesSchema.optional(),
@@ -216,8 +222,9 @@ export const quoteInputSchema = z.object({
   rateOverride: rateRuleSchema.optional(),
   lines: z.array(quoteLineSchema).max(MAX_LINES),
 }).strict().superRefine((quote, ctx) => {
+  // Runs only when every field parsed: field issues above are fatal.
   for (const issue of checkQuoteConsistency(quote)) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, path: issue.path, message: issue.message });
+    ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, path: issue.path, message: issue.message });
   }
 });
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { assumedFinenessSchema, ratesSchema } from '@/features/pricing/pricing.schema';
 
 /**
  * Store settings: each key has a type, a default and a description. Rules that the law decides
@@ -61,6 +62,28 @@ export const SETTING_DEFINITIONS = {
     default: '3.00',
     label: 'Clerk may raise a rate by up to (percentage points)',
     help: 'Raises beyond this need a manager\u2019s approval.',
+  },
+  'pricing.rates': {
+    type: 'json',
+    schema: ratesSchema,
+    default: {},
+    label: 'Payout rates',
+    help: 'Per category, a percentage of melt value or an amount under spot per troy ounce. Categories not set use Cupel\u2019s defaults.',
+  },
+  'pricing.assumed_fineness': {
+    type: 'json',
+    schema: assumedFinenessSchema,
+    default: {},
+    label: 'Paid-on fineness by mark',
+    help: 'Marked items often assay a little under their mark (US law allows small tolerances, 15 U.S.C. 295); the shop may pay on a lower fineness.',
+  },
+  'counter.ownership_statement': {
+    type: 'string',
+    schema: z.string().trim().min(20).max(2000),
+    default:
+      'I declare that I am the lawful owner of the items listed, or am authorised by their owner to sell them, that they are not stolen, and that the identification I presented is my own.',
+    label: 'Seller\u2019s statement of ownership',
+    help: 'The statement a seller agrees to when signing; have it reviewed against local law.',
   },
 } as const satisfies Record<string, { type: 'integer' | 'decimal' | 'boolean' | 'string' | 'json'; schema: z.ZodTypeAny; default: unknown; label: string; help: string }>;
 
