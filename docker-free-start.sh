@@ -170,10 +170,10 @@ if [[ "$(psql_admin -c "select 1 from pg_database where datname = '$PG_DB'")" !=
 fi
 
 # --- Node packages ----------------------------------------------------------
-if [[ ! -d node_modules || package-lock.json -nt node_modules ]]; then
+# npm keeps its own record of what it installed in node_modules/.package-lock.json.
+if [[ ! -f node_modules/.package-lock.json || package-lock.json -nt node_modules/.package-lock.json ]]; then
   log "npm ci"
   npm ci --no-audit --no-fund
-  touch node_modules
 fi
 
 log "applying migrations"

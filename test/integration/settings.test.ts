@@ -21,6 +21,20 @@ describe('store settings', () => {
     expect(audit[0]!.after).toBe(21);
   });
 
+  it('reads back every kind of value as it was saved: integer, decimal string, boolean, list', async () => {
+    const a = await makeStore(db);
+    const manager = (await loadActiveUser(db, (await makeUser(db, { role: 'manager', storeId: a.id })).id))!;
+    await setStoreSetting(db, manager, a.id, 'cash.limit_per_ticket', '900.00');
+    await setStoreSetting(db, manager, a.id, 'seller.expired_id_blocks', false);
+    await setStoreSetting(db, manager, a.id, 'seller.accepted_id_types', ['passport']);
+    await setStoreSetting(db, manager, a.id, 'pricing.assumed_fineness', { '14K': '0.575' });
+    const s = await getStoreSettings(db, a.id);
+    expect(s['cash.limit_per_ticket']).toBe('900.00');
+    expect(s['seller.expired_id_blocks']).toBe(false);
+    expect(s['seller.accepted_id_types']).toEqual(['passport']);
+    expect(s['pricing.assumed_fineness']).toEqual({ '14K': '0.575' });
+  });
+
   it('refuses a wrong value with 422 naming the key, and saves nothing', async () => {
     const a = await makeStore(db);
     const manager = (await loadActiveUser(db, (await makeUser(db, { role: 'manager', storeId: a.id })).id))!;

@@ -107,7 +107,7 @@ export async function readPhotoForm(request: Request): Promise<PhotoForm> {
   };
 }
 
-async function readLimited(request: Request, limit: number): Promise<Uint8Array> {
+async function readLimited(request: Request, limit: number): Promise<Uint8Array<ArrayBuffer>> {
   if (!request.body) return new Uint8Array(0);
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];

@@ -1,4 +1,4 @@
-import { and, eq } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { storeSettings } from '@/db/schema';
 import type { DbOrTx, Db } from '@/db/client';
 import { recordAudit } from '@/features/audit/audit.server';
@@ -16,12 +16,16 @@ import {
 
 /** The store's settings: saved values over the defaults. A saved value that no longer parses falls back to the default. */
 export async function getStoreSettings(db: DbOrTx, storeId: string): Promise<StoreSettings> {
-  const rows = await db.select().from(storeSettings).where(eq(storeSettings.storeId, storeId));
+  // Read as text and parse here: the jsonb column mapping would parse a JSON string value a second time.
+  const rows = await db
+    .select({ key: storeSettings.key, valueText: sql<string>`${storeSettings.value}::text` })
+    .from(storeSettings)
+    .where(eq(storeSettings.storeId, storeId));
   const out = defaultSettings() as Record<string, unknown>;
   for (const row of rows) {
     if (!isSettingKey(row.key)) continue;
     try {
-      out[row.key] = parseSettingValue(row.key, row.value);
+      out[row.key] = parseSettingValue(row.key, JSON.parse(row.valueText));
     } catch {
       // keep the default; the admin screen shows the saved value as invalid
     }
