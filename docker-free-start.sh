@@ -12,6 +12,8 @@ ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
 cd "$ROOT"
 MODE="${1:-start}"
 TEST_KIND="${2:-all}"
+# Anything after the kind goes to vitest, e.g. a file filter: ./docker-free-start.sh test e2e counter-flow
+EXTRA_ARGS=("${@:3}")
 
 if [[ -f "$ROOT/.env" ]]; then
   set -a
@@ -235,17 +237,17 @@ if [[ "$MODE" == "test" ]]; then
   status=0
   if [[ "$TEST_KIND" == "all" || "$TEST_KIND" == "unit" ]]; then
     log "unit and reference tests"
-    npx vitest run --project unit || status=1
+    npx vitest run --project unit "${EXTRA_ARGS[@]}" || status=1
   fi
   if [[ "$TEST_KIND" == "all" || "$TEST_KIND" == "integration" ]]; then
     log "integration tests (PostgreSQL $PG_DB on port $PG_PORT)"
-    npx vitest run --project integration || status=1
+    npx vitest run --project integration "${EXTRA_ARGS[@]}" || status=1
   fi
   if [[ "$TEST_KIND" == "all" || "$TEST_KIND" == "e2e" ]]; then
     build_app
     start_app
     log "browser tests (chromium against $APP_URL)"
-    npx vitest run --project e2e || status=1
+    npx vitest run --project e2e "${EXTRA_ARGS[@]}" || status=1
   fi
   if [[ "$status" != 0 ]]; then log "tests FAILED"; exit 1; fi
   log "all tests passed"

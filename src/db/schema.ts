@@ -15,9 +15,10 @@ import {
   timestamp,
   uniqueIndex,
 } from 'drizzle-orm/pg-core';
+import { ID_DOCUMENT_TYPES, METAL_VALUES, PAYMENT_METHODS, ROLES, TEST_METHODS, TICKET_STATES } from './enums';
 
-export const ROLES = ['admin', 'manager', 'clerk', 'seller'] as const;
-export type Role = (typeof ROLES)[number];
+export * from './enums';
+
 
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
 const updatedAt = () =>
@@ -125,8 +126,6 @@ export const verificationTokens = pgTable(
   (t) => [primaryKey({ columns: [t.identifier, t.token] })],
 );
 
-export const ID_DOCUMENT_TYPES = ['drivers-license', 'state-id', 'passport', 'national-id', 'residence-permit', 'military-id'] as const;
-export type IdDocumentType = (typeof ID_DOCUMENT_TYPES)[number];
 
 /** The people who sell metal at the counter. */
 export const sellers = pgTable(
@@ -240,7 +239,6 @@ export const signInFailures = pgTable(
 // and stay strings until they reach the pricing engine's decimal helpers.
 // ---------------------------------------------------------------------------
 
-export const METAL_VALUES = ['gold', 'silver', 'platinum', 'palladium'] as const;
 
 /** Every spot entry is kept: who entered it, when and the value. The newest per metal is the one in force. */
 export const spotPrices = pgTable(
@@ -275,9 +273,6 @@ export const ticketCounters = pgTable('ticket_counters', {
   lastNumber: integer('last_number').notNull().default(0),
 });
 
-export const TICKET_STATES = ['draft', 'quoted', 'accepted', 'declined', 'paid', 'voided'] as const;
-export type TicketState = (typeof TICKET_STATES)[number];
-export const PAYMENT_METHODS = ['cash', 'check', 'electronic'] as const;
 
 export const tickets = pgTable(
   'tickets',
@@ -334,8 +329,6 @@ export const tickets = pgTable(
   ],
 );
 
-export const TEST_METHODS = ['none', 'acid', 'electronic', 'xrf', 'specific-gravity', 'magnet'] as const;
-export type TestMethod = (typeof TEST_METHODS)[number];
 
 export const ticketLines = pgTable(
   'ticket_lines',

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ROLES } from '@/db/schema';
+import { ROLES } from '@/db/enums';
 import { passwordSchema } from './password';
 
 export const emailSchema = z

@@ -1,4 +1,4 @@
-import type { Role } from '@/db/schema';
+import type { Role } from '@/db/enums';
 
 export type { Role };
 export const STAFF_ROLES = ['admin', 'manager', 'clerk'] as const satisfies readonly Role[];

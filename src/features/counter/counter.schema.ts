@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ID_DOCUMENT_TYPES, METAL_VALUES, TEST_METHODS } from '@/db/schema';
+import { ID_DOCUMENT_TYPES, METAL_VALUES, TEST_METHODS } from '@/db/enums';
 import { quoteLineSchema, spotField } from '@/features/pricing/pricing.schema';
 
 const isoDate = (field: string) =>

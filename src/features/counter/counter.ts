@@ -1,4 +1,4 @@
-import type { TicketState } from '@/db/schema';
+import type { TicketState } from '@/db/enums';
 import { Dec } from '@/features/pricing/decimal';
 import { ageOn } from '@/features/sellers/sellers';
 import type { Metal } from '@/features/pricing/metals';
@@ -158,3 +158,8 @@ export const ACID_TEST_CAUTIONS = [
   'Store acids apart from other chemicals, capped and labelled; keep a neutraliser and water at hand.',
   "Follow the kit maker's instructions and local rules; they govern over this reminder.",
 ] as const;
+
+/** A stored spot ("2400.0000") as people write it: at least two decimals, no trailing zeros beyond. */
+export function displaySpot(pricePerTroyOunce: string): string {
+  return pricePerTroyOunce.includes('.') ? pricePerTroyOunce.replace(/(\.\d\d\d*?)0+$/, '$1') : `${pricePerTroyOunce}.00`;
+}

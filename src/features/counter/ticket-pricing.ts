@@ -3,7 +3,7 @@ import type { ValidQuoteLine } from '@/features/pricing/pricing.schema';
 import type { Metal } from '@/features/pricing/metals';
 import type { CurrencyCode } from '@/features/pricing/money';
 import type { RateRule } from '@/features/pricing/rates';
-import { Dec } from '@/features/pricing/decimal';
+import { Dec, ratioToFixedHalfUp } from '@/features/pricing/decimal';
 import { raiseRule } from './counter';
 
 /**
@@ -108,4 +108,9 @@ function ruleOf(line: PricedLine): RateRule {
 export function rateLabel(line: PricedLine): string {
   const r = line.payoutRate;
   return r.basis === 'percent-of-melt' ? `${r.percent}% of melt` : `${r.amountUnderSpotPerTroyOunce} under spot per ozt`;
+}
+
+/** part / melt x 100 to two places, half-up, exactly; null when there is no melt value. */
+export function percentOfMelt(partMinor: number, meltMinor: number): string | null {
+  return meltMinor === 0 ? null : ratioToFixedHalfUp(new Dec(partMinor).mul(100), new Dec(meltMinor), 2);
 }

@@ -41,7 +41,13 @@ export function useBrowser(): { browser: () => Browser; newPage: () => Promise<P
 
 export async function signInThroughForm(page: Page, email: string, password: string): Promise<void> {
   await page.goto('/signin');
+  await islandsReady(page);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/** Waits until every React island on the page has hydrated (Astro drops the ssr attribute then). */
+export async function islandsReady(page: Page): Promise<void> {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, null, { timeout: 15_000 });
 }
