@@ -1,4 +1,4 @@
-import { safePriceQuote, type PricedLine, type QuoteLine } from '@/features/pricing/pricing';
+import { priceQuoteUnchecked, safePriceQuote, validateQuoteInput, type PricedLine, type QuoteLine } from '@/features/pricing/pricing';
 import type { ValidQuoteLine } from '@/features/pricing/pricing.schema';
 import type { Metal } from '@/features/pricing/metals';
 import type { CurrencyCode } from '@/features/pricing/money';
@@ -41,6 +41,55 @@ export interface PricedTicket {
 }
 
 export function priceTicket(input: TicketPricingInput): PricedTicket {
+  return priceTicketAtOnce(input) ?? priceTicketLineByLine(input);
+}
+
+/**
+ * The usual case, and the fast one the island runs on each keystroke: every line is valid and
+ * has its spot, so the quote is validated once and priced once (raised lines priced again with
+ * their raised rule). Returns null when any line needs the line-by-line path to say what is wrong.
+ */
+function priceTicketAtOnce(input: TicketPricingInput): PricedTicket | null {
+  const items = input.lines.map((l) => {
+    const { rateOverride: _ignored, ...item } = l.item as Record<string, unknown>;
+    return item;
+  });
+  const valid = validateQuoteInput({ currency: input.currency, spot: input.spot, rates: input.rates, assumedFineness: input.assumedFineness, lines: items });
+  if (!valid.ok) return null;
+  const first = priceQuoteUnchecked(valid.value);
+  const raises = input.lines.map((l) => new Dec(l.raisePoints || '0').plus(input.ticketRaisePoints || '0'));
+  const raiseErrors: (string | null)[] = input.lines.map(() => null);
+  let results: readonly QuoteLine[] = first.lines;
+  if (raises.some((r) => !r.isZero())) {
+    const raisedLines = valid.value.lines.map((line, i) => {
+      const r = first.lines[i]!;
+      if (raises[i]!.isZero() || r.status !== 'priced') return line;
+      const raised = raiseRule(ruleOf(r), raises[i]!.toFixed());
+      if ('error' in raised) {
+        raiseErrors[i] = raised.error;
+        return line;
+      }
+      return { ...line, rateOverride: raised };
+    });
+    results = priceQuoteUnchecked({ ...valid.value, lines: raisedLines }).lines;
+  }
+  let meltValueMinor = 0;
+  let payoutMinor = 0;
+  let maxRaise = new Dec(0);
+  const metalsUsed = new Set<Metal>();
+  const lines: PricedTicketLine[] = results.map((result, i) => {
+    if (result.status !== 'priced') return { result, problem: result.message, inputIssues: [], raiseError: null };
+    metalsUsed.add(result.metal);
+    if (raises[i]!.gt(maxRaise)) maxRaise = raises[i]!;
+    meltValueMinor += result.meltValue.amountMinor;
+    payoutMinor += result.payout.amountMinor;
+    return { result, problem: null, inputIssues: [], raiseError: raiseErrors[i]! };
+  });
+  return { lines, meltValueMinor, payoutMinor, marginMinor: meltValueMinor - payoutMinor, metalsUsed: [...metalsUsed], maxRaisePoints: maxRaise.toFixed() };
+}
+
+/** One line at a time, so a line that cannot be priced (no spot, bad input) says why without stopping the others. */
+function priceTicketLineByLine(input: TicketPricingInput): PricedTicket {
   const lines: PricedTicketLine[] = [];
   let meltValueMinor = 0;
   let payoutMinor = 0;

@@ -2,20 +2,26 @@ import bwipjs from 'bwip-js/node';
 
 /** Code 128 carries the full tag text (letters, digits, hyphens) and is read by every counter scanner. */
 const SYMBOLOGY = 'code128';
+/** Code 128 needs a clear margin of at least ten bar widths on each side for a scanner to find the start. */
+const QUIET_ZONE_MODULES = 10;
 
-/** A Code 128 barcode of `text` as an SVG document (bars only; pages print the text beside it in their own type). */
-export function barcodeSvg(text: string, options: { heightMm?: number; includeText?: boolean } = {}): string {
+/**
+ * A Code 128 barcode of `text` as an SVG document (bars only; pages print the text beside it in their own type).
+ * `fill` lets the bars stretch to the box they are given: a 1D code stays readable when all bars widen alike.
+ */
+export function barcodeSvg(text: string, options: { heightMm?: number; includeText?: boolean; fill?: boolean } = {}): string {
   if (!text) throw new RangeError('a barcode needs text');
-  return bwipjs.toSVG({
+  const svg = bwipjs.toSVG({
     bcid: SYMBOLOGY,
     text,
     scale: 2,
     height: options.heightMm ?? 12,
     includetext: options.includeText ?? false,
     textxalign: 'center',
-    paddingwidth: 4,
+    paddingwidth: QUIET_ZONE_MODULES,
     paddingheight: 2,
   });
+  return options.fill ? svg.replace(/^<svg\b/, '<svg preserveAspectRatio="none"') : svg;
 }
 
 /** The same barcode as a PNG, for the PDF. */
@@ -27,7 +33,7 @@ export async function barcodePng(text: string, options: { heightMm?: number; sca
     scale: options.scale ?? 3,
     height: options.heightMm ?? 10,
     includetext: false,
-    paddingwidth: 4,
+    paddingwidth: QUIET_ZONE_MODULES,
     paddingheight: 2,
   });
 }
