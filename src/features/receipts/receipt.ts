@@ -159,14 +159,14 @@ export class ReceiptUnavailableError extends Error {}
 /** Why a ticket has no receipt yet, or null when it has one: a receipt exists once the seller has accepted and signed. */
 export function receiptUnavailableReason(ticket: Pick<ReceiptSource, 'reference' | 'acceptedAt' | 'stateLabel'>): string | null {
   if (ticket.acceptedAt) return null;
-  return `Ticket ${ticket.reference} has no receipt: the seller has not accepted the offer (the ticket is ${ticket.stateLabel.toLowerCase()}). A receipt is issued once the seller accepts and signs.`;
+  return `Ticket ${ticket.reference} has no receipt: the seller has not accepted the offer (ticket status: ${ticket.stateLabel}). A receipt is issued once the seller accepts the offer and signs.`;
 }
 
 /** Why a ticket has no hold-bin tags, or null: tags are issued when a purchase is paid and stay only while it stands. */
 export function tagsUnavailableReason(ticket: Pick<ReceiptSource, 'reference' | 'state' | 'stateLabel'>): string | null {
   if (ticket.state === 'paid') return null;
   if (ticket.state === 'voided') return `Ticket ${ticket.reference} was voided; its items are no longer held under it, so no hold tags are printed.`;
-  return `Ticket ${ticket.reference} has no hold tags yet: tags are issued when the seller is paid (the ticket is ${ticket.stateLabel.toLowerCase()}).`;
+  return `Ticket ${ticket.reference} has no hold tags yet: tags are issued when the seller is paid (ticket status: ${ticket.stateLabel}).`;
 }
 
 const METHOD_LABELS: Record<string, string> = { cash: 'Cash', check: 'Check', electronic: 'Electronic transfer' };
