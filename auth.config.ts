@@ -1,9 +1,11 @@
 import Credentials from '@auth/core/providers/credentials';
+import Nodemailer from '@auth/core/providers/nodemailer';
 import { CredentialsSignin } from '@auth/core/errors';
 import { defineConfig } from 'auth-astro';
 import { getDb } from './src/db/client';
 import { signInSchema } from './src/features/auth/auth.schema';
-import { signInWithPassword } from './src/features/auth/users.server';
+import { loadActiveUser, signInWithPassword } from './src/features/auth/users.server';
+import { activeSellerByEmail, lazyAdapter, queueSignInLink } from './src/features/auth/portal-sign-in.server';
 import { currentClientAddress } from './src/lib/server/request-context';
 
 class ThrottledSignIn extends CredentialsSignin {
@@ -19,8 +21,18 @@ export default defineConfig({
   // so a deactivated account or a changed role takes effect at once, not when the token expires.
   session: { strategy: 'jwt', maxAge: 12 * 60 * 60 },
   useSecureCookies: authUrl.startsWith('https://'),
-  pages: { signIn: '/signin', error: '/signin' },
+  pages: { signIn: '/signin', error: '/signin', verifyRequest: '/signin/check-email' },
+  // The adapter holds the e-mail links' verification tokens; sessions stay JWT.
+  adapter: lazyAdapter(),
   providers: [
+    Nodemailer({
+      id: 'nodemailer',
+      name: 'E-mail link',
+      server: { host: process.env.SMTP_HOST ?? '127.0.0.1', port: Number(process.env.SMTP_PORT ?? 1025) },
+      from: process.env.MAIL_FROM ?? 'Cupel <receipts@cupel.invalid>',
+      maxAge: 24 * 60 * 60,
+      sendVerificationRequest: ({ identifier, url }) => queueSignInLink(identifier, url),
+    }),
     Credentials({
       id: 'credentials',
       name: 'E-mail and password',
@@ -36,6 +48,13 @@ export default defineConfig({
     }),
   ],
   callbacks: {
+    async signIn({ user, account, email }) {
+      if (account?.provider !== 'nodemailer') return true;
+      // Asking for a link: always the same answer; the link itself is only sent to an active seller.
+      if (email?.verificationRequest) return true;
+      const seller = user.email ? await activeSellerByEmail(getDb(), user.email) : null;
+      return !!seller && !!(await loadActiveUser(getDb(), seller.id));
+    },
     jwt({ token, user }) {
       if (user?.id) token.uid = user.id;
       return token;

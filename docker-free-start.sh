@@ -32,6 +32,7 @@ if [[ "$MODE" == "test" ]]; then
   SMTP_PORT="${TEST_SMTP_PORT:-1035}"
   MAILDEV_WEB_PORT="${TEST_MAILDEV_WEB_PORT:-1090}"
   S3_PORT="${TEST_S3_PORT:-4579}"
+  FAKE_PAYMENTS_PORT="${TEST_FAKE_PAYMENTS_PORT:-12121}"
   PG_DB="cupel_test"
   CLUSTER_NAME="pg-test"
 else
@@ -40,6 +41,7 @@ else
   SMTP_PORT="${SMTP_PORT:-1025}"
   MAILDEV_WEB_PORT="${MAILDEV_WEB_PORT:-1080}"
   S3_PORT="${S3_PORT:-4569}"
+  FAKE_PAYMENTS_PORT="${FAKE_PAYMENTS_PORT:-12111}"
   PG_DB="${PG_DB:-cupel}"
   CLUSTER_NAME="pg"
 fi
@@ -61,6 +63,17 @@ export S3_REGION="${S3_REGION:-us-east-1}"
 export S3_BUCKET="${S3_BUCKET:-cupel-photos}"
 export S3_ACCESS_KEY_ID="${S3_ACCESS_KEY_ID:-S3RVER}"
 export S3_SECRET_ACCESS_KEY="${S3_SECRET_ACCESS_KEY:-S3RVER}"
+# Electronic payouts: the payment provider's SDK pointed at Cupel's payments fake (fakes/payments).
+# For the provider's real test mode set STRIPE_SECRET_KEY to a test key and STRIPE_API_HOST to "".
+export FAKE_PAYMENTS_PORT
+export STRIPE_SECRET_KEY="${STRIPE_SECRET_KEY:-sk_test_cupel_local_only}"
+export STRIPE_API_HOST="${STRIPE_API_HOST-127.0.0.1}"
+export STRIPE_API_PORT="${STRIPE_API_PORT:-$FAKE_PAYMENTS_PORT}"
+export STRIPE_API_PROTOCOL="${STRIPE_API_PROTOCOL:-http}"
+export STRIPE_WEBHOOK_SECRET="${STRIPE_WEBHOOK_SECRET:-whsec_cupel_local_only}"
+export FAKE_WEBHOOK_SECRET="$STRIPE_WEBHOOK_SECRET"
+export FAKE_WEBHOOK_URL="${APP_URL}/api/payments/webhook"
+export FAKE_PUBLIC_URL="http://127.0.0.1:${FAKE_PAYMENTS_PORT}"
 export FAKE_DATA_DIR="$ROOT/.local/fakes-$MODE"
 # Test runs start the fakes empty, like their database.
 [[ "$MODE" == "test" ]] && rm -rf "$FAKE_DATA_DIR"
@@ -213,12 +226,20 @@ start_fakes() {
     "$ROOT/node_modules/.bin/tsx" "$server" >"$ROOT/.local/fake-$name-$MODE.log" 2>&1 &
     PIDS+=($!)
     if [[ "$name" == "s3" ]]; then wait_for_port "$S3_PORT" "fake s3"; fi
+    if [[ "$name" == "payments" ]]; then wait_for_port "$FAKE_PAYMENTS_PORT" "payments fake"; fi
   done
 }
 
 build_app() {
   log "building Cupel"
   npx astro build >"$ROOT/.local/build-$MODE.log" 2>&1 || { tail -n 40 "$ROOT/.local/build-$MODE.log" >&2; die "build failed"; }
+}
+
+# The worker sends the mail outbox and reconciles pending electronic payouts.
+start_worker() {
+  log "starting the worker (mail outbox, payout reconciliation)"
+  "$ROOT/node_modules/.bin/tsx" scripts/worker.ts >"$ROOT/.local/worker-$MODE.log" 2>&1 &
+  PIDS+=($!)
 }
 
 start_app() {
@@ -248,6 +269,7 @@ if [[ "$MODE" == "test" ]]; then
   if [[ "$TEST_KIND" == "all" || "$TEST_KIND" == "e2e" ]]; then
     build_app
     start_app
+    start_worker
     log "browser tests (chromium against $APP_URL)"
     npx vitest run --project e2e "${EXTRA_ARGS[@]}" || status=1
   fi
@@ -262,11 +284,13 @@ start_maildev
 start_fakes
 build_app
 start_app
+start_worker
 
 cat <<EOF
 
   Cupel is running:            $APP_URL
   Mail catcher (maildev):      $MAILDEV_URL
+  Payments fake:               $FAKE_PUBLIC_URL
   PostgreSQL:                  $DATABASE_URL
 
   Demo sign-ins (password for all: cupel-demo-2026)

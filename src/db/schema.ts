@@ -459,6 +459,11 @@ export const payments = pgTable(
     currency: text('currency').notNull(),
     drawerId: text('drawer_id').references(() => cashDrawers.id, { onDelete: 'restrict' }),
     checkNumber: text('check_number'),
+    /** Electronic payouts: the provider's transfer and payout, and the connected account paid. */
+    providerAccountId: text('provider_account_id'),
+    providerTransferId: text('provider_transfer_id'),
+    providerPayoutId: text('provider_payout_id'),
+    payoutSpeed: text('payout_speed', { enum: ['standard', 'instant'] }),
     failureReason: text('failure_reason'),
     createdBy: text('created_by')
       .notNull()
@@ -471,6 +476,8 @@ export const payments = pgTable(
     uniqueIndex('payments_one_live_payout_per_ticket').on(t.ticketId).where(sql`${t.kind} = 'payout' and ${t.state} in ('pending', 'completed')`),
     uniqueIndex('payments_one_reversal_per_payment').on(t.reversesPaymentId),
     index('payments_drawer_idx').on(t.drawerId),
+    uniqueIndex('payments_provider_payout_unique').on(t.providerPayoutId),
+    check('payments_electronic_has_account', sql`${t.method} <> 'electronic' or ${t.kind} <> 'payout' or ${t.providerAccountId} is not null`),
     check('payments_kind_valid', sql`${t.kind} in ('payout', 'reversal')`),
     check('payments_method_valid', sql`${t.method} in ('cash', 'check', 'electronic')`),
     check('payments_state_valid', sql`${t.state} in ('pending', 'completed', 'failed')`),
@@ -510,5 +517,77 @@ export const photos = pgTable(
     check('photos_content_type_valid', sql`${t.contentType} in ('image/jpeg', 'image/png', 'image/webp')`),
     check('photos_size_limit', sql`${t.byteSize} > 0 and ${t.byteSize} <= 10485760`),
     check('photos_belongs', sql`${t.sellerId} is not null or ${t.ticketId} is not null`),
+  ],
+);
+
+// ---------------------------------------------------------------------------
+// Settlement: sellers' payout accounts at the payment provider, webhook events, the mail outbox.
+// ---------------------------------------------------------------------------
+
+/** A seller's connected account at the payment provider, for electronic payouts. */
+export const sellerPayoutAccounts = pgTable(
+  'seller_payout_accounts',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    sellerId: text('seller_id')
+      .notNull()
+      .references(() => sellers.id, { onDelete: 'restrict' }),
+    providerAccountId: text('provider_account_id').notNull(),
+    payoutsEnabled: boolean('payouts_enabled').notNull().default(false),
+    externalAccountKind: text('external_account_kind', { enum: ['card', 'bank_account'] }),
+    externalAccountLast4: text('external_account_last4'),
+    externalAccountLabel: text('external_account_label'),
+    instantAvailable: boolean('instant_available').notNull().default(false),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    uniqueIndex('seller_payout_accounts_seller_unique').on(t.sellerId),
+    uniqueIndex('seller_payout_accounts_provider_unique').on(t.providerAccountId),
+    check('seller_payout_accounts_last4', sql`${t.externalAccountLast4} is null or ${t.externalAccountLast4} ~ '^[0-9]{4}$'`),
+  ],
+);
+
+/** Webhook events already handled, so a repeated delivery changes nothing. */
+export const providerEvents = pgTable('provider_events', {
+  eventId: text('event_id').primaryKey(),
+  type: text('type').notNull(),
+  receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+export const OUTBOX_KINDS = ['receipt', 'payout-confirmation', 'onboarding-link', 'portal-sign-in'] as const;
+export const OUTBOX_STATES = ['pending', 'sent', 'dead'] as const;
+
+/**
+ * E-mail waiting to be sent. Written in the same transaction as the change that causes it; a worker
+ * sends it and retries with backoff, so nothing is lost while the mail server is down.
+ */
+export const outboxMessages = pgTable(
+  'outbox_messages',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id').references(() => stores.id, { onDelete: 'restrict' }),
+    kind: text('kind', { enum: OUTBOX_KINDS }).notNull(),
+    toAddress: text('to_address').notNull(),
+    subject: text('subject').notNull(),
+    textBody: text('text_body').notNull(),
+    htmlBody: text('html_body').notNull(),
+    /** What to attach, rendered at send time (e.g. the receipt PDF of a ticket). */
+    attachTicketReceiptId: text('attach_ticket_receipt_id').references(() => tickets.id, { onDelete: 'restrict' }),
+    state: text('state', { enum: OUTBOX_STATES }).notNull().default('pending'),
+    attempts: integer('attempts').notNull().default(0),
+    nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true }).notNull().defaultNow(),
+    lastError: text('last_error'),
+    sentAt: timestamp('sent_at', { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index('outbox_due_idx').on(t.state, t.nextAttemptAt),
+    check('outbox_kind_valid', sql`${t.kind} in ('receipt', 'payout-confirmation', 'onboarding-link', 'portal-sign-in')`),
+    check('outbox_state_valid', sql`${t.state} in ('pending', 'sent', 'dead')`),
+    check('outbox_sent_has_time', sql`(${t.state} = 'sent') = (${t.sentAt} is not null)`),
   ],
 );

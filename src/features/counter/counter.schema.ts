@@ -89,7 +89,7 @@ export const payTicketSchema = z.discriminatedUnion(
   [
     z.object({ method: z.literal('cash') }),
     z.object({ method: z.literal('check'), checkNumber: text('checkNumber', 40) }),
-    z.object({ method: z.literal('electronic') }),
+    z.object({ method: z.literal('electronic'), speed: z.enum(['standard', 'instant']).default('standard') }),
   ],
   { errorMap: () => ({ message: 'method must be cash, check or electronic' }) },
 );

@@ -19,6 +19,9 @@ import { decimalToMinor } from './money-input';
 import type { PricedLine } from '@/features/pricing/pricing';
 import type { Metal } from '@/features/pricing/metals';
 import { getStoreSettings } from '@/features/settings/settings.server';
+import { enqueueMail } from '@/features/mail/outbox.server';
+import { receiptMail } from '@/features/mail/templates';
+import { buildReceipt } from '@/features/receipts/receipt';
 import type { StoreSettings } from '@/features/settings/settings';
 import { AppError } from '@/lib/errors';
 import {
@@ -583,12 +586,12 @@ export async function payTicket(
   input: { method: 'cash' } | { method: 'check'; checkNumber: string } | { method: 'electronic' },
 ) {
   if (input.method === 'electronic') {
-    throw new AppError(422, 'Electronic payout is not set up for this store yet: pay by cash or check', [{ path: 'method', message: 'electronic payout unavailable' }]);
+    throw new AppError(422, 'Electronic payouts go through the settlement service', [{ path: 'method', message: 'use the electronic payout' }]);
   }
   return db.transaction(async (tx) => {
     const ticket = await lockTicket(tx, actor, ticketId);
     requireTransition(ticket.state, 'pay');
-    const store = await storeOf(tx, ticket.storeId);
+    await requireNoLivePayout(tx, ticket.id);
     const settings = await getStoreSettings(tx, ticket.storeId);
     let drawerId: string | null = null;
     if (input.method === 'cash') {
@@ -609,7 +612,6 @@ export async function payTicket(
       }
       drawerId = drawer.id;
     }
-    const paidAt = new Date();
     const [payment] = await tx
       .insert(payments)
       .values({
@@ -625,26 +627,61 @@ export async function payTicket(
         createdBy: actor.id,
       })
       .returning({ id: payments.id });
-    const release = holdUntil(paidAt, settings['hold.period_days'], store.timeZone);
-    const lines = await tx.select({ id: ticketLines.id, position: ticketLines.position }).from(ticketLines).where(eq(ticketLines.ticketId, ticket.id));
-    for (const line of lines) {
-      await tx
-        .update(ticketLines)
-        .set({ tagNumber: tagNumber(store.code, ticket.number, line.position), holdUntil: release })
-        .where(eq(ticketLines.id, line.id));
-    }
-    await tx.update(tickets).set({ state: 'paid', paidAt, holdUntil: release }).where(eq(tickets.id, ticket.id));
-    await recordAudit(tx, {
-      storeId: ticket.storeId,
-      actorUserId: actor.id,
-      action: 'ticket.pay',
-      entity: 'ticket',
-      entityId: ticket.id,
-      before: { state: ticket.state },
-      after: { state: 'paid', method: input.method, amountMinor: ticket.payoutMinor, paymentId: payment!.id, drawerId, holdUntil: release },
-    });
+    await markPaid(tx, ticket, actor.id, { method: input.method, paymentId: payment!.id, drawerId });
     return getTicket(tx, actor, ticket.id);
   });
+}
+
+/** An electronic payout in flight keeps the ticket from being paid another way until it fails. */
+export async function requireNoLivePayout(tx: DbOrTx, ticketId: string): Promise<void> {
+  const [live] = await tx
+    .select({ id: payments.id, state: payments.state })
+    .from(payments)
+    .where(and(eq(payments.ticketId, ticketId), eq(payments.kind, 'payout'), inArray(payments.state, ['pending', 'completed'])));
+  if (live) throw new AppError(409, live.state === 'pending' ? 'An electronic payout for this ticket is in progress' : 'This ticket is already paid');
+}
+
+/**
+ * A ticket whose payout has gone through: each line gets its tag and release date from the store's
+ * hold period, the ticket is paid, and the seller's receipt e-mail is queued, all in the caller's
+ * transaction. Used for cash and check at the counter and for an electronic payout the provider confirms.
+ */
+export async function markPaid(
+  tx: Tx,
+  ticket: typeof tickets.$inferSelect,
+  actorUserId: string | null,
+  payment: { method: string; paymentId: string; drawerId?: string | null },
+): Promise<void> {
+  const store = await storeOf(tx, ticket.storeId);
+  const settings = await getStoreSettings(tx, ticket.storeId);
+  const paidAt = new Date();
+  const release = holdUntil(paidAt, settings['hold.period_days'], store.timeZone);
+  const lines = await tx.select({ id: ticketLines.id, position: ticketLines.position }).from(ticketLines).where(eq(ticketLines.ticketId, ticket.id));
+  for (const line of lines) {
+    await tx
+      .update(ticketLines)
+      .set({ tagNumber: tagNumber(store.code, ticket.number, line.position), holdUntil: release })
+      .where(eq(ticketLines.id, line.id));
+  }
+  await tx.update(tickets).set({ state: 'paid', paidAt, holdUntil: release }).where(eq(tickets.id, ticket.id));
+  await recordAudit(tx, {
+    storeId: ticket.storeId,
+    actorUserId,
+    action: 'ticket.pay',
+    entity: 'ticket',
+    entityId: ticket.id,
+    before: { state: ticket.state },
+    after: { state: 'paid', method: payment.method, amountMinor: ticket.payoutMinor, paymentId: payment.paymentId, drawerId: payment.drawerId ?? null, holdUntil: release },
+  });
+  await queueReceiptMail(tx, ticket.id);
+}
+
+/** Queues the seller's receipt e-mail (with the PDF attached at send time) when the seller gave an address. */
+export async function queueReceiptMail(tx: DbOrTx, ticketId: string): Promise<void> {
+  const view = await getTicketUnscoped(tx, ticketId);
+  if (!view.seller.email) return;
+  const content = receiptMail(buildReceipt(view));
+  await enqueueMail(tx, { storeId: view.storeId, kind: 'receipt', to: view.seller.email, ...content, attachTicketReceiptId: view.id });
 }
 
 export async function voidTicket(db: Db, actor: SessionUser, ticketId: string, reason: string) {
@@ -771,6 +808,12 @@ export async function drawersOfStore(db: DbOrTx, storeId: string) {
 // ---------------------------------------------------------------------------
 // Reading tickets
 // ---------------------------------------------------------------------------
+
+/** A ticket for the system's own work (webhooks, mail), not on behalf of a signed-in user. */
+export function getTicketUnscoped(db: DbOrTx, ticketId: string) {
+  return getTicket(db, SYSTEM_READER, ticketId);
+}
+const SYSTEM_READER: SessionUser = { id: 'system', name: 'Cupel', email: 'system@cupel.invalid', role: 'admin', storeId: null, storeName: null };
 
 export async function getTicket(db: DbOrTx, user: SessionUser, ticketId: string) {
   const [row] = await db

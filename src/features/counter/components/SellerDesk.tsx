@@ -44,7 +44,7 @@ export default function SellerDesk({ role, acceptedIdTypes }: { role: string; ac
   const [message, setMessage] = useState<string | null>(null);
   const [overrideFor, setOverrideFor] = useState<string | null>(null);
   const [overrideReason, setOverrideReason] = useState('');
-  const { data } = useSWR<{ sellers: SellerHit[] }>(query.trim().length >= 2 ? `/api/sellers?q=${encodeURIComponent(query.trim())}` : null, (u: string) => fetchJson(u), {
+  const { data } = useSWR(query.trim().length >= 2 ? `/api/sellers?q=${encodeURIComponent(query.trim())}` : null, (u: string) => fetchJson<{ sellers: SellerHit[] }>(u), {
     keepPreviousData: true,
   });
   const {

@@ -1,7 +1,8 @@
 import type { APIRoute } from 'astro';
 import { getDb } from '@/db/client';
 import { acceptTicketSchema, declineTicketSchema, payTicketSchema, voidTicketSchema } from '@/features/counter/counter.schema';
-import { acceptTicket, declineTicket, payTicket, quoteTicket, voidTicket } from '@/features/counter/tickets.server';
+import { acceptTicket, declineTicket, getTicket, payTicket, quoteTicket, voidTicket } from '@/features/counter/tickets.server';
+import { payElectronically } from '@/features/settlement/settlement.server';
 import { requireRole } from '@/lib/auth-guard';
 import { AppError } from '@/lib/errors';
 import { handle, json, parseJsonBody } from '@/lib/http';
@@ -26,6 +27,10 @@ export const POST: APIRoute = handle(async ({ locals, params, request }) => {
     case 'pay': {
       const user = requireRole(locals, 'staff');
       const input = await parseJsonBody(request, payTicketSchema);
+      if (input.method === 'electronic') {
+        const payment = await payElectronically(db, user, id, { speed: input.speed });
+        return json({ payment, ticket: await getTicket(db, user, id) }, payment?.state === 'pending' ? 202 : 200);
+      }
       return json({ ticket: await payTicket(db, user, id, input) });
     }
     case 'void': {

@@ -1,0 +1,47 @@
+/**
+ * Cupel's background worker: sends the mail outbox every few seconds and asks the payment provider
+ * about electronic payouts that have been pending too long. Started by docker-free-start.sh.
+ */
+import { createDb } from '../src/db/client';
+import { receiptAttachments } from '../src/features/mail/attachments.server';
+import { deliverDueMail, smtpTransport } from '../src/features/mail/outbox.server';
+import { reconcilePendingPayments } from '../src/features/settlement/settlement.server';
+
+const url = process.env.DATABASE_URL;
+if (!url) throw new Error('DATABASE_URL is not set');
+const { db, close } = createDb(url, { max: 3 });
+const transport = smtpTransport();
+const mailEveryMs = Number(process.env.OUTBOX_INTERVAL_MS ?? 2000);
+const reconcileEveryMs = Number(process.env.RECONCILE_INTERVAL_MS ?? 60_000);
+const reconcileAfterMs = Number(process.env.RECONCILE_AFTER_MS ?? 5 * 60_000);
+
+let stopping = false;
+let lastReconcile = 0;
+
+async function tick() {
+  try {
+    const { sent, failed } = await deliverDueMail(db, transport, receiptAttachments(db));
+    if (sent || failed) console.log(`outbox: ${sent} sent, ${failed} failed`);
+    if (Date.now() - lastReconcile >= reconcileEveryMs) {
+      lastReconcile = Date.now();
+      const outcomes = await reconcilePendingPayments(db, { olderThanMs: reconcileAfterMs });
+      if (outcomes.length) console.log('reconcile:', JSON.stringify(outcomes));
+    }
+  } catch (err) {
+    console.error('worker tick failed:', (err as Error).message);
+  }
+  if (!stopping) timer = setTimeout(tick, mailEveryMs);
+}
+
+let timer = setTimeout(tick, 200);
+console.log('worker started');
+
+async function stop() {
+  stopping = true;
+  clearTimeout(timer);
+  transport.close();
+  await close();
+  process.exit(0);
+}
+process.on('SIGTERM', stop);
+process.on('SIGINT', stop);
