@@ -541,6 +541,9 @@ export const sellerPayoutAccounts = pgTable(
     externalAccountLast4: text('external_account_last4'),
     externalAccountLabel: text('external_account_label'),
     instantAvailable: boolean('instant_available').notNull().default(false),
+    /** The latest onboarding link, shown as a QR code on the seller-facing screen until it expires. */
+    onboardingUrl: text('onboarding_url'),
+    onboardingUrlExpiresAt: timestamp('onboarding_url_expires_at', { withTimezone: true }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

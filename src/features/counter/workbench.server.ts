@@ -7,16 +7,20 @@ import type { Metal } from '@/features/pricing/metals';
 import { spotBoard } from './spot.server';
 import { drawerExpectedMinor, getTicket, openDrawerFor } from './tickets.server';
 import type { CounterLinePayload } from './grading';
+import QRCode from 'qrcode';
+import { payoutAccountOf } from '@/features/settlement/settlement.server';
 
 /** Everything the ticket screen needs, as plain JSON (dates as ISO strings) so it can hydrate an island. */
 export async function workbenchData(db: DbOrTx, user: SessionUser, ticketId: string) {
   const ticket = await getTicket(db, user, ticketId);
-  const [settings, board, seller, drawer] = await Promise.all([
+  const [settings, board, seller, drawer, payoutAccount] = await Promise.all([
     getStoreSettings(db, ticket.storeId),
     spotBoard(db, ticket.storeId),
     sellerAtCounter(db, ticket.storeId, ticket.sellerId),
     openDrawerFor(db, user.id),
+    payoutAccountOf(db, ticket.sellerId),
   ]);
+  const linkLive = !!payoutAccount?.onboardingUrl && !payoutAccount.payoutsEnabled && (payoutAccount.onboardingUrlExpiresAt?.getTime() ?? 0) > Date.now();
   const spot: Partial<Record<Metal, { pricePerTroyOunce: string; enteredAt: string; stale: boolean; enteredByName: string | null }>> = {};
   for (const [metal, s] of Object.entries(board.spots)) {
     spot[metal as Metal] = { pricePerTroyOunce: s!.pricePerTroyOunce, enteredAt: s!.enteredAt.toISOString(), stale: s!.stale, enteredByName: s!.enteredByName };
@@ -45,7 +49,7 @@ export async function workbenchData(db: DbOrTx, user: SessionUser, ticketId: str
         tagNumber: l.tagNumber,
       })),
       approvals: ticket.approvals.map((a) => ({ id: a.id, state: a.state, raisePoints: a.raisePoints, note: a.note })),
-      payments: ticket.payments.map((p) => ({ id: p.id, kind: p.kind, method: p.method, amountMinor: p.amountMinor, state: p.state, checkNumber: p.checkNumber })),
+      payments: ticket.payments.map((p) => ({ id: p.id, kind: p.kind, method: p.method, amountMinor: p.amountMinor, state: p.state, checkNumber: p.checkNumber, failureReason: p.failureReason })),
     },
     seller: {
       id: seller.seller.id,
@@ -54,6 +58,14 @@ export async function workbenchData(db: DbOrTx, user: SessionUser, ticketId: str
       doNotBuy: seller.seller.doNotBuy,
       problems: seller.problems,
       recentTickets: seller.recentTickets.map((t) => ({ ...t, createdAt: t.createdAt.toISOString() })),
+      email: seller.seller.email,
+      payoutAccount: {
+        onboarded: !!payoutAccount?.payoutsEnabled,
+        destination: payoutAccount?.externalAccountLast4 ? `${payoutAccount.externalAccountLabel ?? 'Account'} ending ${payoutAccount.externalAccountLast4}` : null,
+        instantAvailable: !!payoutAccount?.instantAvailable,
+        onboardingUrl: linkLive ? payoutAccount!.onboardingUrl : null,
+        onboardingQrSvg: linkLive ? await QRCode.toString(payoutAccount!.onboardingUrl!, { type: 'svg', margin: 1, width: 220 }) : null,
+      },
     },
     spot,
     staleAfterMinutes: board.staleAfterMinutes,

@@ -83,6 +83,10 @@ export async function startOnboarding(db: Db, actor: SessionUser | null, sellerI
   } catch (err) {
     throw providerError(err);
   }
+  await db
+    .update(sellerPayoutAccounts)
+    .set({ onboardingUrl: link.url, onboardingUrlExpiresAt: new Date(link.expires_at * 1000) })
+    .where(eq(sellerPayoutAccounts.id, account.id));
   if (seller.email) {
     await db.transaction(async (tx) => {
       await enqueueMail(tx, { storeId: seller.storeId, kind: 'onboarding-link', to: seller.email!, ...onboardingLinkMail({ storeName: store!.name, sellerName: seller.legalName, url: link.url }) });

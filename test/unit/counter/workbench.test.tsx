@@ -27,7 +27,7 @@ function initial(overrides: Partial<WorkbenchData['ticket']> = {}): WorkbenchDat
       payments: [],
       ...overrides,
     },
-    seller: { id: 's1', legalName: 'Pat Example', idSummary: "Driver's license •••1234", doNotBuy: false, problems: [], recentTickets: [] },
+    seller: { id: "s1", legalName: "Pat Example", idSummary: "Driver's license •••1234", doNotBuy: false, problems: [], recentTickets: [], email: null, payoutAccount: { onboarded: false, destination: null, instantAvailable: false, onboardingUrl: null, onboardingQrSvg: null } },
     spot: {
       gold: { pricePerTroyOunce: '2400.0000', enteredAt: new Date().toISOString(), stale: false, enteredByName: 'M' },
       silver: { pricePerTroyOunce: '30.0000', enteredAt: new Date().toISOString(), stale: false, enteredByName: 'M' },

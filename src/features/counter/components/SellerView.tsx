@@ -11,6 +11,7 @@ export default function SellerView({ initial }: { initial: WorkbenchData }) {
     refreshInterval: 2000,
   });
   const d = data ?? initial;
+  const qr = d.ticket.state === 'accepted' && !d.seller.payoutAccount.onboarded ? d.seller.payoutAccount.onboardingQrSvg : null;
   const fmt = (m: number) => moneyOf(m, d.ticket.currency as CurrencyCode).formatted;
   const pct = percentOfMelt(d.ticket.payoutMinor, d.ticket.meltValueMinor);
   return (
@@ -40,6 +41,12 @@ export default function SellerView({ initial }: { initial: WorkbenchData }) {
         Melt value <strong>{fmt(d.ticket.meltValueMinor)}</strong>, we pay <strong>{fmt(d.ticket.payoutMinor)}</strong>
         {pct ? ` (${pct}% of melt)` : ''}.
       </p>
+      {qr && (
+        <div className="mt-6 flex items-center gap-6 rounded-lg border border-ink-200 p-4" data-testid="onboarding-qr">
+          <img src={`data:image/svg+xml;base64,${btoa(qr)}`} alt="QR code: set up your payout account" width={220} height={220} />
+          <p className="text-xl">Scan with your phone to set up where we pay you. The same link was e-mailed to you.</p>
+        </div>
+      )}
       <p className="mt-4 text-base text-ink-700">
         Melt value is the fine metal in your items at today's spot price. The difference, {fmt(d.ticket.marginMinor)}, is the store's margin for testing, holding and refining. Prices follow the
         spot: if it changes before you accept, the offer changes with it.

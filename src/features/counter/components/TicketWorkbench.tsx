@@ -54,6 +54,9 @@ export default function TicketWorkbench({ initial }: Props) {
   const { data, mutate } = useSWR<WorkbenchData>(`/api/tickets/${initial.ticket.id}/workbench`, (u: string) => fetchJson<WorkbenchData>(u), {
     fallbackData: initial,
     revalidateOnFocus: true,
+    // While an electronic payout is on its way, or the seller is setting up their account, look again every few seconds.
+    refreshInterval: (latest) =>
+      latest?.ticket.payments.some((p) => p.state === 'pending') || (latest?.ticket.state === 'accepted' && latest.seller.payoutAccount.onboardingUrl) ? 2000 : 0,
   });
   const d = data ?? initial;
   const currency = d.ticket.currency as CurrencyCode;
@@ -69,7 +72,7 @@ export default function TicketWorkbench({ initial }: Props) {
   const [signature, setSignature] = useState<string | null>(null);
   const [agrees, setAgrees] = useState(false);
   const [signing, setSigning] = useState(false);
-  const [payMethod, setPayMethod] = useState<'cash' | 'check'>('cash');
+  const [payMethod, setPayMethod] = useState<'cash' | 'check' | 'electronic'>('cash');
   const [checkNumber, setCheckNumber] = useState('');
   const [voidReason, setVoidReason] = useState('');
   const [managerEmail, setManagerEmail] = useState('');
@@ -153,6 +156,8 @@ export default function TicketWorkbench({ initial }: Props) {
   });
 
   const pendingApproval = d.ticket.approvals.find((a) => a.state === 'pending');
+  const pendingPayout = d.ticket.payments.find((p) => p.kind === 'payout' && p.state === 'pending');
+  const failedPayout = d.ticket.payments.filter((p) => p.kind === 'payout' && p.state === 'failed').at(-1);
   const marginPercent = percentOfMelt(live.totals.marginMinor, live.totals.meltValueMinor);
   const payPercent = percentOfMelt(live.totals.payoutMinor, live.totals.meltValueMinor);
   const anyAcid = lines.some((l) => l.testMethod === 'acid');
@@ -378,36 +383,82 @@ export default function TicketWorkbench({ initial }: Props) {
           )}
           {d.ticket.state === 'accepted' && (
             <div className="space-y-2">
-              <fieldset>
-                <legend className="field-label">Pay {fmt(d.ticket.payoutMinor)} by</legend>
-                <label className="mr-4 inline-flex items-center gap-1">
-                  <input type="radio" name="pay-method" value="cash" checked={payMethod === 'cash'} onChange={() => setPayMethod('cash')} /> Cash
-                </label>
-                <label className="inline-flex items-center gap-1">
-                  <input type="radio" name="pay-method" value="check" checked={payMethod === 'check'} onChange={() => setPayMethod('check')} /> Check
-                </label>
-              </fieldset>
-              {payMethod === 'cash' && (
-                <p className="text-sm text-ink-700">
-                  {d.drawer ? `Your drawer holds ${fmt(d.drawer.balanceMinor)}.` : 'Open your cash drawer on the counter page first.'} Cash limit per ticket: {d.settings.cashLimit} {d.ticket.currency}.
+              {pendingPayout ? (
+                <p role="status" className="rounded-md bg-amber-50 p-2 font-semibold text-amber-900" data-testid="payout-pending">
+                  Electronic payout of {fmt(pendingPayout.amountMinor)} on its way; waiting for the payment provider to confirm.
                 </p>
+              ) : (
+                <>
+                  {failedPayout && (
+                    <p role="alert" className="rounded-md bg-red-50 p-2 text-sm font-semibold text-red-900" data-testid="payout-failed">
+                      The electronic payout failed: {failedPayout.failureReason ?? 'no reason given'}. Pay another way or try again.
+                    </p>
+                  )}
+                  <fieldset>
+                    <legend className="field-label">Pay {fmt(d.ticket.payoutMinor)} by</legend>
+                    {(['cash', 'check', 'electronic'] as const).map((m) => (
+                      <label key={m} className="mr-4 inline-flex items-center gap-1">
+                        <input type="radio" name="pay-method" value={m} checked={payMethod === m} onChange={() => setPayMethod(m)} /> {m === 'cash' ? 'Cash' : m === 'check' ? 'Check' : 'Electronic payout'}
+                      </label>
+                    ))}
+                  </fieldset>
+                  {payMethod === 'cash' && (
+                    <p className="text-sm text-ink-700">
+                      {d.drawer ? `Your drawer holds ${fmt(d.drawer.balanceMinor)}.` : 'Open your cash drawer on the counter page first.'} Cash limit per ticket: {d.settings.cashLimit} {d.ticket.currency}.
+                    </p>
+                  )}
+                  {payMethod === 'check' && (
+                    <div>
+                      <label className="field-label" htmlFor="check-number">
+                        Check number
+                      </label>
+                      <input id="check-number" className="field-input" value={checkNumber} onChange={(e) => setCheckNumber(e.target.value)} />
+                    </div>
+                  )}
+                  {payMethod === 'electronic' && (
+                    <div className="space-y-2 text-sm" data-testid="electronic-payout">
+                      {d.seller.payoutAccount.onboarded ? (
+                        <p>Pays to the seller's {d.seller.payoutAccount.destination ?? 'payout account'}.</p>
+                      ) : (
+                        <>
+                          <p>The seller has no payout account yet. Send them the set-up link{d.seller.email ? ` (e-mailed to ${d.seller.email})` : ''}; it also shows as a QR code on the seller's screen.</p>
+                          <button
+                            type="button"
+                            className="btn-quiet"
+                            disabled={!!busy}
+                            onClick={() => run('onboard', () => fetchJson(`/api/sellers/${d.seller.id}/payout-account`, { method: 'POST' }), 'Set-up link sent; it is on the seller\u2019s screen too.')}
+                          >
+                            Send payout set-up link
+                          </button>
+                          {d.seller.payoutAccount.onboardingUrl && (
+                            <p className="break-all text-ink-600">
+                              Link: <a className="underline" href={d.seller.payoutAccount.onboardingUrl} target="_blank" rel="noreferrer">{d.seller.payoutAccount.onboardingUrl}</a>
+                            </p>
+                          )}
+                        </>
+                      )}
+                    </div>
+                  )}
+                  <button
+                    type="button"
+                    className="btn-primary w-full"
+                    disabled={!!busy || (payMethod === 'electronic' && !d.seller.payoutAccount.onboarded)}
+                    onClick={() =>
+                      run(
+                        'pay',
+                        () =>
+                          fetchJson(`/api/tickets/${d.ticket.id}/pay`, {
+                            method: 'POST',
+                            body: JSON.stringify(payMethod === 'cash' ? { method: 'cash' } : payMethod === 'check' ? { method: 'check', checkNumber } : { method: 'electronic' }),
+                          }),
+                        payMethod === 'electronic' ? 'Payout sent to the payment provider.' : 'Paid. Print the receipt and the hold tags.',
+                      )
+                    }
+                  >
+                    Pay seller
+                  </button>
+                </>
               )}
-              {payMethod === 'check' && (
-                <div>
-                  <label className="field-label" htmlFor="check-number">
-                    Check number
-                  </label>
-                  <input id="check-number" className="field-input" value={checkNumber} onChange={(e) => setCheckNumber(e.target.value)} />
-                </div>
-              )}
-              <button
-                type="button"
-                className="btn-primary w-full"
-                disabled={!!busy}
-                onClick={() => run('pay', () => fetchJson(`/api/tickets/${d.ticket.id}/pay`, { method: 'POST', body: JSON.stringify(payMethod === 'cash' ? { method: 'cash' } : { method: 'check', checkNumber }) }), 'Paid. Print the receipt and the hold tags.')}
-              >
-                Pay seller
-              </button>
             </div>
           )}
           {(d.ticket.state === 'paid' || d.ticket.state === 'accepted' || d.ticket.state === 'voided') && (
