@@ -105,6 +105,7 @@ const DEFAULT_WEBHOOK_DELAY_MS = 2_000;
 const MAX_FAULT_DELAY_MS = 120_000;
 const MAX_BODY_BYTES = 1_000_000;
 const LINK_LIFETIME_S = 300;
+const MAX_EVENTS = 10_000;
 const DAY_MS = 86_400_000;
 const CURRENCIES = new Set(['usd']);
 const ACCOUNT_REQUIREMENTS = ['external_account', 'tos_acceptance.date', 'tos_acceptance.ip'];
@@ -495,6 +496,10 @@ export async function createPaymentsFake(options: PaymentsFakeOptions = {}): Pro
       type,
     } as unknown as Stripe.Event;
     state.events.push(event);
+    if (state.events.length > MAX_EVENTS) {
+      const dropped = new Set(state.events.splice(0, state.events.length - MAX_EVENTS).map((e) => e.id));
+      state.deliveries = state.deliveries.filter((d) => !dropped.has(d.event_id));
+    }
     if (webhookUrl) {
       const delay = takeFault(['delay-webhook']);
       const repeat = takeFault(['repeat-webhook']);
