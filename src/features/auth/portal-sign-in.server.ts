@@ -6,16 +6,33 @@ import { getDb, type DbOrTx } from '@/db/client';
 import { enqueueMail } from '@/features/mail/outbox.server';
 import { signInLinkMail } from '@/features/mail/templates';
 
+const ADAPTER_METHODS = [
+  'createUser',
+  'getUser',
+  'getUserByEmail',
+  'getUserByAccount',
+  'updateUser',
+  'deleteUser',
+  'linkAccount',
+  'unlinkAccount',
+  'createSession',
+  'getSessionAndUser',
+  'updateSession',
+  'deleteSession',
+  'createVerificationToken',
+  'useVerificationToken',
+] as const;
+
 /** The Auth.js adapter over Cupel's own tables, built on first use so that loading the config opens no connection. */
 export function lazyAdapter(): Adapter {
   let real: Adapter | undefined;
-  const get = () => (real ??= DrizzleAdapter(getDb() as never, { usersTable: users, accountsTable: accounts, sessionsTable: sessions, verificationTokensTable: verificationTokens } as never));
-  return new Proxy({} as Adapter, {
-    get: (_t, prop: string) => {
-      const value = (get() as Record<string, unknown>)[prop];
-      return typeof value === 'function' ? value.bind(real) : value;
-    },
-  });
+  const get = () =>
+    (real ??= DrizzleAdapter(getDb() as never, { usersTable: users, accountsTable: accounts, sessionsTable: sessions, verificationTokensTable: verificationTokens } as never));
+  const adapter: Record<string, unknown> = {};
+  for (const method of ADAPTER_METHODS) {
+    adapter[method] = (...args: unknown[]) => (get()[method] as (...a: unknown[]) => unknown)(...args);
+  }
+  return adapter as Adapter;
 }
 
 export async function activeSellerByEmail(db: DbOrTx, email: string) {

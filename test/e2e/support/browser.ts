@@ -42,7 +42,7 @@ export function useBrowser(): { browser: () => Browser; newPage: () => Promise<P
 export async function signInThroughForm(page: Page, email: string, password: string): Promise<void> {
   await page.goto('/signin');
   await islandsReady(page);
-  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('E-mail', { exact: true }).fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
 }
