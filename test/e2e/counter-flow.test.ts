@@ -72,6 +72,20 @@ describe('a clerk serves a walk-in seller from hello to receipt, in real chromiu
     await page.getByRole('button', { name: 'Add coins or bullion' }).click();
     await fillLine(page, 3, { Count: '10' }, { 'Coin or bullion type': 'us-90-dime' });
 
+    // A photo of the items, through the S3 fake; served back only to staff.
+    const png = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8z8BQDwAEhQGAhKmMIQAAAABJRU5ErkJggg==', 'base64');
+    await page.getByLabel('Item photos').setInputFiles({ name: 'items.png', mimeType: 'image/png', buffer: png });
+    const thumb = page.getByRole('img', { name: 'Item photo' });
+    await thumb.waitFor();
+    const photoUrl = (await thumb.getAttribute('src'))!;
+    const served = await page.request.get(photoUrl);
+    expect(served.status()).toBe(200);
+    expect(served.headers()['content-type']).toBe('image/png');
+    expect(Buffer.compare(await served.body(), png)).toBe(0);
+    const stranger = await (await page.context().browser()!.newContext({ baseURL: page.url() })).newPage();
+    expect((await stranger.request.get(new URL(photoUrl, page.url()).toString())).status()).toBe(401);
+    await stranger.context().close();
+
     // Live totals from the shared engine, before the server has seen anything.
     const liveMargin = await page.getByTestId('margin-statement').textContent();
     expect(liveMargin).toMatch(/Melt value \$[\d,]+\.\d\d, we pay \$[\d,]+\.\d\d \(\d+\.\d\d% of melt\)/);

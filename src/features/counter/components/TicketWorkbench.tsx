@@ -11,6 +11,7 @@ import { percentOfMelt, priceTicket } from '../ticket-pricing';
 import type { WorkbenchData } from '../workbench.server';
 import { LineEditor } from './LineEditor';
 import { SignaturePad } from './SignaturePad';
+import { PhotoStrip } from '@/features/photos/components/PhotoStrip';
 
 interface Props {
   initial: WorkbenchData;
@@ -208,6 +209,12 @@ export default function TicketWorkbench({ initial }: Props) {
             </button>
           </div>
         )}
+        <section className="card" aria-label="Photos">
+          <div className="grid gap-4 md:grid-cols-2">
+            <PhotoStrip kind="item" ticketId={d.ticket.id} label="Item photos" />
+            <PhotoStrip kind="id-document" sellerId={d.seller.id} label="Photo of the seller's ID" />
+          </div>
+        </section>
         <aside className="card border-amber-300 bg-amber-50" aria-labelledby="acid-caution" data-emphasis={anyAcid ? 'on' : 'off'}>
           <h3 id="acid-caution" className="font-bold text-amber-900">
             Testing safely
