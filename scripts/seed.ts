@@ -6,6 +6,11 @@ import { eq, sql } from 'drizzle-orm';
 import { createDb } from '../src/db/client';
 import { sellers, stores, users } from '../src/db/schema';
 import { hashPassword } from '../src/features/auth/password';
+import { loadActiveUser } from '../src/features/auth/users.server';
+import { saveLinesSchema } from '../src/features/counter/counter.schema';
+import { enterSpot, currentSpots } from '../src/features/counter/spot.server';
+import { acceptTicket, createTicket, payTicket, quoteTicket, repriceOpenTickets, saveLines } from '../src/features/counter/tickets.server';
+import { tickets } from '../src/db/schema';
 
 export const DEMO_PASSWORD = 'cupel-demo-2026';
 
@@ -128,9 +133,61 @@ async function main() {
       .onConflictDoNothing();
   }
 
+  await demoCounterActivity(storeIds, userIds);
+
   const [{ n: userCount } = { n: 0 }] = await db.select({ n: sql<number>`count(*)::int` }).from(users);
   const [{ n: sellerCount } = { n: 0 }] = await db.select({ n: sql<number>`count(*)::int` }).from(sellers);
   console.log(`demo data ready: ${demoStores.length} stores, ${userCount} users, ${sellerCount} sellers`);
+}
+
+/** Demo spot prices (invented figures, not market data) and two tickets: one paid by check, one offer shown. */
+async function demoCounterActivity(storeIds: Record<string, string>, userIds: Record<string, string>) {
+  const admin = (await loadActiveUser(db, userIds['ada.admin@northgate-assay.example']!))!;
+  const clerk = (await loadActiveUser(db, userIds['clara.clerk@northgate-assay.example']!))!;
+  const demoSpot = { gold: '2400.00', silver: '30.00', platinum: '950.00', palladium: '1000.00' } as const;
+  for (const storeId of Object.values(storeIds)) {
+    if (Object.keys(await currentSpots(db, storeId)).length > 0) continue;
+    for (const [metal, price] of Object.entries(demoSpot)) {
+      await enterSpot(db, admin, storeId, { metal: metal as keyof typeof demoSpot, pricePerTroyOunce: price }, repriceOpenTickets);
+    }
+  }
+  const hbr = storeIds.HBR!;
+  const [existing] = await db.select({ id: tickets.id }).from(tickets).where(eq(tickets.storeId, hbr)).limit(1);
+  if (existing) return;
+  const sellerRows = await db.select({ id: sellers.id, email: sellers.email }).from(sellers).where(eq(sellers.storeId, hbr));
+  const sam = sellerRows.find((r) => r.email === 'sam.seller@example.net')!;
+  const rosa = sellerRows.find((r) => r.email === 'rosa.seller@example.net')!;
+  const signature = '<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 600 180"><path d="M 40 130 C 90 40, 140 40, 180 120 S 260 160, 300 70 L 340 120 L 380 60" stroke="black" stroke-width="3" fill="none"/></svg>';
+
+  const paid = await createTicket(db, clerk, hbr, { sellerId: sam.id, doNotBuyOverrideReason: null });
+  await saveLines(
+    db,
+    clerk,
+    paid.id,
+    saveLinesSchema.parse({
+      lines: [
+        { item: { kind: 'weight', category: 'flatware', mark: 'STERLING', grossWeight: { value: '398.2', unit: 'g' }, deductions: [{ kind: 'grams', value: '88.0', reason: 'knife blades and handle filler' }], description: 'Sterling dinner forks and knives, 8 pieces' }, testMethod: 'acid', testResult: 'holds at 925 acid' },
+        { item: { kind: 'weight', category: 'jewelry', mark: '14K', grossWeight: { value: '6.12', unit: 'g' }, deductions: [{ kind: 'grams', value: '0.40', reason: 'three small stones' }], description: '14K ring with stones' }, testMethod: 'electronic', testResult: 'reads 14K' },
+        { item: { kind: 'coin', coinType: 'us-90-quarter', count: 12 }, testMethod: 'none' },
+      ],
+    }),
+  );
+  await quoteTicket(db, clerk, paid.id);
+  await acceptTicket(db, clerk, paid.id, { signatureSvg: signature });
+  await payTicket(db, clerk, paid.id, { method: 'check', checkNumber: '100214' });
+
+  const offer = await createTicket(db, clerk, hbr, { sellerId: rosa.id, doNotBuyOverrideReason: null });
+  await saveLines(
+    db,
+    clerk,
+    offer.id,
+    saveLinesSchema.parse({
+      lines: [
+        { item: { kind: 'weight', category: 'jewelry', mark: '18K', grossWeight: { value: '4.8', unit: 'dwt' }, description: '18K chain' }, testMethod: 'acid', testResult: 'holds at 18K acid' },
+        { item: { kind: 'weight', category: 'jewelry', mark: '950', grossWeight: { value: '3.1', unit: 'g' }, description: 'band marked 950' }, testMethod: 'none' },
+      ],
+    }),
+  );
 }
 
 try {
