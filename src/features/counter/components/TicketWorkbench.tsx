@@ -227,7 +227,7 @@ export default function TicketWorkbench({ initial }: Props) {
         </aside>
       </div>
 
-      <aside className="space-y-4 xl:sticky xl:top-4 xl:self-start" aria-label="Offer">
+      <aside className="space-y-4 xl:self-start" aria-label="Offer">
         <section className="card" aria-labelledby="offer-heading">
           <div className="flex items-center justify-between">
             <h2 id="offer-heading" className="text-lg font-bold">
