@@ -250,7 +250,25 @@ start_app() {
   wait_for_port "$APP_PORT" Cupel
 }
 
+run_vitest() {
+  npx vitest run --project "$1" "${EXTRA_ARGS[@]}" 2>&1 | tee "$ROOT/.local/vitest-$1.log"
+}
+
+# One closing line for every kind run: "summary: N passed, N failed".
+print_summary() {
+  local passed=0 failed=0 n
+  for f in "$ROOT"/.local/vitest-*.log; do
+    [[ -f "$f" ]] || continue
+    n=$(grep -E '^ +Tests ' "$f" | grep -oE '[0-9]+ passed' | grep -oE '[0-9]+' | head -n 1 || true)
+    passed=$((passed + ${n:-0}))
+    n=$(grep -E '^ +Tests ' "$f" | grep -oE '[0-9]+ failed' | grep -oE '[0-9]+' | head -n 1 || true)
+    failed=$((failed + ${n:-0}))
+  done
+  echo "summary: ${passed} passed, ${failed} failed"
+}
+
 if [[ "$MODE" == "test" ]]; then
+  rm -f "$ROOT"/.local/vitest-*.log
   if [[ "$TEST_KIND" == "all" || "$TEST_KIND" == "e2e" ]]; then
     [[ -x /usr/bin/chromium ]] || need_apt chromium
   fi
@@ -261,19 +279,20 @@ if [[ "$MODE" == "test" ]]; then
   status=0
   if [[ "$TEST_KIND" == "all" || "$TEST_KIND" == "unit" ]]; then
     log "unit and reference tests"
-    npx vitest run --project unit "${EXTRA_ARGS[@]}" || status=1
+    run_vitest unit || status=1
   fi
   if [[ "$TEST_KIND" == "all" || "$TEST_KIND" == "integration" ]]; then
     log "integration tests (PostgreSQL $PG_DB on port $PG_PORT)"
-    npx vitest run --project integration "${EXTRA_ARGS[@]}" || status=1
+    run_vitest integration || status=1
   fi
   if [[ "$TEST_KIND" == "all" || "$TEST_KIND" == "e2e" ]]; then
     build_app
     start_app
     start_worker
     log "browser tests (chromium against $APP_URL)"
-    npx vitest run --project e2e "${EXTRA_ARGS[@]}" || status=1
+    run_vitest e2e || status=1
   fi
+  print_summary
   if [[ "$status" != 0 ]]; then log "tests FAILED"; exit 1; fi
   log "all tests passed"
   exit 0
