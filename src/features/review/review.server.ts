@@ -1,5 +1,5 @@
 import { desc, eq, and, sql } from 'drizzle-orm';
-import { auditLog, sellers, users } from '@/db/schema';
+import { auditLog, sellers, tickets, users } from '@/db/schema';
 import type { DbOrTx } from '@/db/client';
 
 export async function recentAuditEntries(db: DbOrTx, storeId: string, limit = 20) {
@@ -32,4 +32,23 @@ export async function storeHeadcount(db: DbOrTx, storeId: string) {
     .from(sellers)
     .where(and(eq(sellers.storeId, storeId)));
   return { staff: row?.staff ?? 0, sellerAccounts: row?.sellerAccounts ?? 0, sellers: s?.sellers ?? 0, doNotBuy: s?.doNotBuy ?? 0 };
+}
+
+/** Today's purchases in the store's own calendar day: tickets paid, melt value, payout and margin, per currency. */
+export async function intakeForDay(db: DbOrTx, storeId: string, timeZone: string, day: string) {
+  const rows = await db
+    .select({
+      currency: tickets.currency,
+      tickets: sql<number>`count(*)::int`,
+      meltValueMinor: sql<string>`coalesce(sum(${tickets.meltValueMinor}), 0)`,
+      payoutMinor: sql<string>`coalesce(sum(${tickets.payoutMinor}), 0)`,
+    })
+    .from(tickets)
+    .where(and(eq(tickets.storeId, storeId), eq(tickets.state, 'paid'), sql`(${tickets.paidAt} at time zone ${timeZone})::date = ${day}::date`))
+    .groupBy(tickets.currency);
+  return rows.map((r) => {
+    const melt = Number(r.meltValueMinor);
+    const payout = Number(r.payoutMinor);
+    return { currency: r.currency, tickets: r.tickets, meltValueMinor: melt, payoutMinor: payout, marginMinor: melt - payout };
+  });
 }
