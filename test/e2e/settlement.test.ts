@@ -5,21 +5,14 @@ import { payTicket } from '@/features/counter/tickets.server';
 import { FACTORY_PASSWORD, makeSeller, makeUser, testDb, unique } from '../support/db';
 import { makeCounterWorld, setSpots } from '../support/counter';
 import { acceptedTicket } from '../support/tickets';
+import { waitFor as waitForBounded } from '../support/wait';
+
+const waitFor = <T,>(what: string, fn: () => Promise<T | null | undefined | false>) => waitForBounded(what, fn, { timeoutMs: 30_000, everyMs: 250 });
 import { BASE_URL, SCREENSHOT_DIR, islandsReady, signInThroughForm, useBrowser } from './support/browser';
 
 const db = testDb();
 const { browser, newPage } = useBrowser();
 const MAILDEV = process.env.MAILDEV_URL!;
-
-async function waitFor<T>(what: string, fn: () => Promise<T | null | undefined | false>, timeoutMs = 30_000): Promise<T> {
-  const start = Date.now();
-  while (Date.now() - start < timeoutMs) {
-    const v = await fn();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 250));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 async function mailTo(address: string, subject: RegExp) {
   const all = (await (await fetch(`${MAILDEV}/api/email?limit=500`)).json()) as { subject: string; to: { address: string }[]; text: string }[];

@@ -17,6 +17,7 @@ import {
 import { testDb } from '../support/db';
 import { makeCounterWorld, setSpots, type CounterWorld } from '../support/counter';
 import { acceptedTicket } from '../support/tickets';
+import { waitFor as until } from '../support/wait';
 
 const db = testDb();
 const SECRET = 'whsec_settlement_test';
@@ -64,16 +65,6 @@ afterAll(async () => {
   await new Promise((r) => hook?.close(r));
   resetPaymentProvider();
 });
-
-async function until<T>(what: string, fn: () => Promise<T | null | undefined | false>, timeoutMs = 8000): Promise<T> {
-  const start = Date.now();
-  while (Date.now() - start < timeoutMs) {
-    const v = await fn();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 50));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 /** The seller completes the fake provider's onboarding form with a test debit card. */
 async function onboard(world: CounterWorld) {

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { ID_DOCUMENT_TYPES, METAL_VALUES, TEST_METHODS } from '@/db/enums';
 import { quoteLineSchema, spotField } from '@/features/pricing/pricing.schema';
+import { optionalEmail, optionalText, requiredText } from '@/lib/zod-fields';
 
 const isoDate = (field: string) =>
   z
@@ -8,15 +9,7 @@ const isoDate = (field: string) =>
     .regex(/^\d{4}-\d{2}-\d{2}$/, `${field} must be a date written YYYY-MM-DD`)
     .refine((d) => !Number.isNaN(Date.parse(`${d}T00:00:00Z`)) && new Date(`${d}T00:00:00Z`).toISOString().startsWith(d), `${field} is not a real date`);
 
-const text = (field: string, max = 120) => z.string({ required_error: `${field} is required` }).trim().min(1, `${field} is required`).max(max);
-const optionalText = (max = 120) =>
-  z
-    .string()
-    .trim()
-    .max(max)
-    .optional()
-    .nullable()
-    .transform((v) => (v ? v : null));
+const text = requiredText;
 
 export const spotEntrySchema = z.object({
   metal: z.enum(METAL_VALUES, { errorMap: () => ({ message: 'metal must be gold, silver, platinum or palladium' }) }),
@@ -26,7 +19,7 @@ export const spotEntrySchema = z.object({
 export const sellerInputSchema = z
   .object({
     legalName: text('legalName', 160),
-    email: z.string().trim().toLowerCase().email('email must be an e-mail address').max(254).optional().nullable().or(z.literal('')).transform((v) => v || null),
+    email: optionalEmail(),
     phone: optionalText(40),
     idType: z.enum(ID_DOCUMENT_TYPES, { errorMap: () => ({ message: `idType must be one of ${ID_DOCUMENT_TYPES.join(', ')}` }) }),
     idNumber: text('idNumber', 60),

@@ -1,19 +1,12 @@
 import { z } from 'zod';
 import { passwordSchema } from '@/features/auth/password';
+import { optionalEmail, optionalText as optional } from '@/lib/zod-fields';
 
-const optional = (max: number) =>
-  z
-    .string()
-    .trim()
-    .max(max)
-    .optional()
-    .nullable()
-    .transform((v) => (v ? v : null));
 
 /** What a seller may correct themself: contact and address. Name, date of birth and ID are checked at the counter. */
 export const contactUpdateSchema = z
   .object({
-    email: z.string().trim().toLowerCase().email('email must be an e-mail address').max(254).optional().nullable().or(z.literal('')).transform((v) => v || null),
+    email: optionalEmail(),
     phone: optional(40),
     addressLine1: z.string().trim().min(1, 'addressLine1 is required').max(160),
     addressLine2: optional(160),

@@ -79,41 +79,17 @@ function LineEditorImpl({ index, line, onChange, onRemove, disabled, summary }: 
                 {reading ? <MarkReadingText reading={reading} /> : <span className="text-ink-400">The reading appears as you type</span>}
               </p>
             </div>
-            <div>
-              <label className="field-label" htmlFor={id('metal')}>
-                Metal
-              </label>
-              <select id={id('metal')} className="field-input" value={line.metal} onChange={(e) => set({ metal: e.target.value as GradingLine['metal'] })}>
-                <option value="">From the mark</option>
-                {METALS.map((m) => (
-                  <option key={m} value={m}>
-                    {METAL_LABELS[m]}
-                  </option>
-                ))}
-              </select>
-            </div>
+            <MetalSelect id={id('metal')} value={line.metal} onChange={(metal) => set({ metal })} blankLabel="From the mark" />
             <div>
               <label className="field-label" htmlFor={id('tested')}>
                 Tested fineness
               </label>
-              <input id={id('tested')} className="field-input" inputMode="decimal" placeholder="0.583" value={line.testedFineness} onChange={(e) => set({ testedFineness: e.target.value })} />
+              <input id={id('tested')} className="field-input" inputMode="decimal" placeholder="e.g. 0.585" value={line.testedFineness} onChange={(e) => set({ testedFineness: e.target.value })} />
             </div>
           </>
         )}
         {line.kind === 'fine-weight' && (
-          <div>
-            <label className="field-label" htmlFor={id('metal')}>
-              Metal
-            </label>
-            <select id={id('metal')} className="field-input" value={line.metal} onChange={(e) => set({ metal: e.target.value as GradingLine['metal'] })}>
-              <option value="">Choose…</option>
-              {METALS.map((m) => (
-                <option key={m} value={m}>
-                  {METAL_LABELS[m]}
-                </option>
-              ))}
-            </select>
-          </div>
+          <MetalSelect id={id('metal')} value={line.metal} onChange={(metal) => set({ metal })} blankLabel="Choose…" />
         )}
         {line.kind === 'coin' && (
           <>
@@ -276,6 +252,24 @@ function LineEditorImpl({ index, line, onChange, onRemove, disabled, summary }: 
         )}
       </p>
     </fieldset>
+  );
+}
+
+function MetalSelect({ id, value, onChange, blankLabel }: { id: string; value: GradingLine['metal']; onChange: (metal: GradingLine['metal']) => void; blankLabel: string }) {
+  return (
+    <div>
+      <label className="field-label" htmlFor={id}>
+        Metal
+      </label>
+      <select id={id} className="field-input" value={value} onChange={(e) => onChange(e.target.value as GradingLine['metal'])}>
+        <option value="">{blankLabel}</option>
+        {METALS.map((m) => (
+          <option key={m} value={m}>
+            {METAL_LABELS[m]}
+          </option>
+        ))}
+      </select>
+    </div>
   );
 }
 
