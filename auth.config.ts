@@ -43,7 +43,7 @@ export default defineConfig({
         const result = await signInWithPassword(getDb(), parsed.data.email, parsed.data.password, currentClientAddress());
         if (result.status === 'throttled') throw new ThrottledSignIn();
         if (result.status === 'invalid') return null;
-        return { id: result.user.id, name: result.user.name, email: result.user.email };
+        return { id: result.user.id, name: result.user.name, email: result.user.email, role: result.user.role, storeId: result.user.storeId } as never;
       },
     }),
   ],
@@ -55,12 +55,21 @@ export default defineConfig({
       const seller = user.email ? await activeSellerByEmail(getDb(), user.email) : null;
       return !!seller && !!(await loadActiveUser(getDb(), seller.id));
     },
-    jwt({ token, user }) {
-      if (user?.id) token.uid = user.id;
+    async jwt({ token, user }) {
+      if (user?.id) {
+        // The token names the user, their role and store as of sign-in; the middleware reads the user
+        // again on every request, so a later change of role, store or activation wins at once.
+        const fresh = await loadActiveUser(getDb(), user.id);
+        token.uid = user.id;
+        token.role = fresh?.role ?? null;
+        token.storeId = fresh?.storeId ?? null;
+      }
       return token;
     },
     session({ session, token }) {
-      if (token.uid && session.user) (session.user as { id?: string }).id = String(token.uid);
+      if (token.uid && session.user) {
+        Object.assign(session.user, { id: String(token.uid), role: token.role ?? null, storeId: token.storeId ?? null });
+      }
       return session;
     },
   },

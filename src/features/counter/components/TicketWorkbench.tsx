@@ -75,6 +75,7 @@ export default function TicketWorkbench({ initial }: Props) {
   const [signing, setSigning] = useState(false);
   const [payMethod, setPayMethod] = useState<'cash' | 'check' | 'electronic'>('cash');
   const [checkNumber, setCheckNumber] = useState('');
+  const [instant, setInstant] = useState(false);
   const [voidReason, setVoidReason] = useState('');
   const [managerEmail, setManagerEmail] = useState('');
   const [managerPassword, setManagerPassword] = useState('');
@@ -425,7 +426,14 @@ export default function TicketWorkbench({ initial }: Props) {
                   {payMethod === 'electronic' && (
                     <div className="space-y-2 text-sm" data-testid="electronic-payout">
                       {d.seller.payoutAccount.onboarded ? (
-                        <p>Pays to the seller's {d.seller.payoutAccount.destination ?? 'payout account'}.</p>
+                        <>
+                          <p>Pays to the seller's {d.seller.payoutAccount.destination ?? 'payout account'}.</p>
+                          {d.seller.payoutAccount.instantAvailable && (
+                            <label className="flex items-center gap-2">
+                              <input type="checkbox" checked={instant} onChange={(e) => setInstant(e.target.checked)} /> Instant payout (arrives in minutes; the provider may charge for it)
+                            </label>
+                          )}
+                        </>
                       ) : (
                         <>
                           <p>The seller has no payout account yet. Send them the set-up link{d.seller.email ? ` (e-mailed to ${d.seller.email})` : ''}; it also shows as a QR code on the seller's screen.</p>
@@ -456,7 +464,7 @@ export default function TicketWorkbench({ initial }: Props) {
                         () =>
                           fetchJson(`/api/tickets/${d.ticket.id}/pay`, {
                             method: 'POST',
-                            body: JSON.stringify(payMethod === 'cash' ? { method: 'cash' } : payMethod === 'check' ? { method: 'check', checkNumber } : { method: 'electronic' }),
+                            body: JSON.stringify(payMethod === 'cash' ? { method: 'cash' } : payMethod === 'check' ? { method: 'check', checkNumber } : { method: 'electronic', speed: instant ? 'instant' : 'standard' }),
                           }),
                         payMethod === 'electronic' ? 'Payout sent to the payment provider.' : 'Paid. Print the receipt and the hold tags.',
                       )
