@@ -1,4 +1,4 @@
-import { and, desc, eq, sql } from 'drizzle-orm';
+import { desc, eq } from 'drizzle-orm';
 import { spotPrices, stores, users } from '@/db/schema';
 import type { Db, DbOrTx } from '@/db/client';
 import { recordAudit } from '@/features/audit/audit.server';
@@ -91,13 +91,4 @@ export async function enterSpot(
     const repricedTickets = await repriceOpenTickets(tx, storeId);
     return { id: row!.id, repricedTickets };
   });
-}
-
-/** Spot entries older than now - minutes, for tests and review. */
-export async function spotCount(db: DbOrTx, storeId: string, metal: Metal): Promise<number> {
-  const [row] = await db
-    .select({ n: sql<number>`count(*)::int` })
-    .from(spotPrices)
-    .where(and(eq(spotPrices.storeId, storeId), eq(spotPrices.metal, metal)));
-  return row?.n ?? 0;
 }
