@@ -128,12 +128,12 @@ describe('buildReceipt', () => {
     expect(receipt.totals.meltValue).toBe('$517.09');
     expect(receipt.totals.payout).toBe('$402.08');
     expect(receipt.totals.margin).toBe('$115.01');
-    expect(receipt.totals.payoutPercentOfMelt).toBe('77.8%');
-    expect(receipt.totals.marginPercentOfMelt).toBe('22.2%');
+    expect(receipt.totals.payoutPercentOfMelt).toBe('77.76%');
+    expect(receipt.totals.marginPercentOfMelt).toBe('22.24%');
   });
 
   it('states the margin in plain words with the same figures as the totals', () => {
-    expect(receipt.marginStatement).toBe("Melt value $517.09. We pay $402.08, which is 77.8% of melt value; the store's margin is $115.01.");
+    expect(receipt.marginStatement).toBe("Melt value $517.09. We pay $402.08, which is 77.76% of melt value; the store's margin is $115.01.");
     for (const figure of [receipt.totals.meltValue, receipt.totals.payout, receipt.totals.margin, receipt.totals.payoutPercentOfMelt]) {
       expect(receipt.marginStatement).toContain(figure);
     }
@@ -272,7 +272,7 @@ describe('receiptPlainText', () => {
   const text = receiptPlainText(receipt);
 
   it('states the same figures as the model', () => {
-    for (const figure of ['$517.09', '$402.08', '$115.01', '22.2%', '$206.12', '$176.65', '$19.31', 'HBR-000042-03', '•••••••9920', 'March 19, 2025', 'check no. 10457']) {
+    for (const figure of ['$517.09', '$402.08', '$115.01', '22.24%', '$206.12', '$176.65', '$19.31', 'HBR-000042-03', '•••••••9920', 'March 19, 2025', 'check no. 10457']) {
       expect(text).toContain(figure);
     }
     expect(text.replace(/\s+/g, ' ')).toContain(receipt.marginStatement);

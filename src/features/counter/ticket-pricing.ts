@@ -163,3 +163,13 @@ export function rateLabel(line: PricedLine): string {
 export function percentOfMelt(partMinor: number, meltMinor: number): string | null {
   return meltMinor === 0 ? null : ratioToFixedHalfUp(new Dec(partMinor).mul(100), new Dec(meltMinor), 2);
 }
+
+/**
+ * The offer's two shares of melt value, as every screen, receipt and e-mail states them: the payout
+ * share to two places, half-up, and the margin share as 100 minus it, so the pair always adds to 100.
+ */
+export function offerPercentages(payoutMinor: number, meltMinor: number): { payout: string; margin: string } | null {
+  const payout = percentOfMelt(payoutMinor, meltMinor);
+  if (payout === null) return null;
+  return { payout, margin: new Dec(100).minus(payout).toFixed(2) };
+}

@@ -1,5 +1,6 @@
 import { TEST_METHOD_LABELS } from '@/features/counter/counter';
-import { Dec, ratioToFixedHalfUp } from '@/features/pricing/decimal';
+import { offerPercentages } from '@/features/counter/ticket-pricing';
+import { Dec } from '@/features/pricing/decimal';
 import { METAL_LABELS, isMetal } from '@/features/pricing/metals';
 import { CURRENCY_CODES, currencyExponent, formatMinor, type CurrencyCode } from '@/features/pricing/money';
 import { ID_TYPE_LABELS, maskIdNumber } from '@/features/sellers/sellers';
@@ -183,9 +184,9 @@ export function buildReceipt(ticket: ReceiptSource, options: ReceiptOptions = {}
 
   const lines = ticket.lines.map((l) => buildLine(l, currency, locale));
 
-  const payoutPercent = percentOf(ticket.payoutMinor, ticket.meltValueMinor);
-  // Stated as 100 minus the payout share, so the two percentages printed side by side always add up.
-  const marginPercent = ticket.meltValueMinor > 0 ? new Dec(100).minus(payoutPercent).toFixed(1) : '0.0';
+  const shares = offerPercentages(ticket.payoutMinor, ticket.meltValueMinor) ?? { payout: '0.00', margin: '0.00' };
+  const payoutPercent = shares.payout;
+  const marginPercent = shares.margin;
   const totals = {
     meltValue: money(ticket.meltValueMinor),
     payout: money(ticket.payoutMinor),
@@ -317,12 +318,6 @@ function itemOf(input: unknown): Record<string, unknown> {
 function currencyOf(code: string): CurrencyCode {
   if (!(CURRENCY_CODES as string[]).includes(code)) throw new RangeError(`currency ${code} is not one Cupel prints`);
   return code as CurrencyCode;
-}
-
-/** Payout as a percentage of melt, one decimal, half-up, from the integer amounts. */
-function percentOf(partMinor: number, wholeMinor: number): string {
-  if (wholeMinor <= 0) return '0.0';
-  return ratioToFixedHalfUp(new Dec(partMinor).mul(100), new Dec(wholeMinor), 1);
 }
 
 /** A stored decimal with trailing zeros dropped, but at least `minPlaces` decimals: "316.6000" -> "316.60". */

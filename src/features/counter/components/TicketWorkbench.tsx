@@ -7,7 +7,7 @@ import type { PricedLine } from '@/features/pricing/pricing';
 import type { Metal } from '@/features/pricing/metals';
 import { ACID_TEST_CAUTIONS, displaySpot } from '../counter';
 import { fromCounterLine, newGradingLine, toCounterLine, type GradingLine } from '../grading';
-import { percentOfMelt, priceTicket } from '../ticket-pricing';
+import { offerPercentages, priceTicket } from '../ticket-pricing';
 import type { WorkbenchData } from '../workbench.server';
 import { LineEditor } from './LineEditor';
 import { SignaturePad } from './SignaturePad';
@@ -160,8 +160,9 @@ export default function TicketWorkbench({ initial }: Props) {
   const pendingApproval = d.ticket.approvals.find((a) => a.state === 'pending');
   const pendingPayout = d.ticket.payments.find((p) => p.kind === 'payout' && p.state === 'pending');
   const failedPayout = d.ticket.payments.filter((p) => p.kind === 'payout' && p.state === 'failed').at(-1);
-  const marginPercent = percentOfMelt(live.totals.marginMinor, live.totals.meltValueMinor);
-  const payPercent = percentOfMelt(live.totals.payoutMinor, live.totals.meltValueMinor);
+  const shares = offerPercentages(live.totals.payoutMinor, live.totals.meltValueMinor);
+  const marginPercent = shares?.margin ?? null;
+  const payPercent = shares?.payout ?? null;
   const anyAcid = lines.some((l) => l.testMethod === 'acid');
 
   return (
