@@ -1,12 +1,35 @@
 import { coinSpec, faceValueClass } from './coins';
-import { Dec, HUNDRED, ZERO, parseRatio, ratioToFixedHalfUp, ratioValue, roundToMinorHalfUp, toFixedHalfUp, toTrimmed, type Ratio } from './decimal';
+import {
+  EXACT_HUNDRED,
+  EXACT_ZERO,
+  ZERO,
+  addExact,
+  exact,
+  exactPowerOfTen,
+  exactRatioToFixedHalfUp,
+  exactToDec,
+  exactToFixedHalfUp,
+  exactToString,
+  isOneExact,
+  maxExact,
+  mulExact,
+  parseRatio,
+  percentOfMinor,
+  ratioValue,
+  roundToMinorHalfUp,
+  subExact,
+  toFixedHalfUp,
+  toTrimmed,
+  type Exact,
+  type Ratio,
+} from './decimal';
 import type { MarkReading } from './marks';
 import { METALS, type Metal } from './metals';
-import { minorPerMajor, moneyOf, sumMinor, type CurrencyCode, type Money } from './money';
+import { currencyExponent, moneyOf, sumMinor, type CurrencyCode, type Money } from './money';
 import { quoteInputSchema, type ValidQuoteInput, type ValidQuoteLine } from './pricing.schema';
 import type { RateCategory } from './rates';
 import { resolveLine, type FinenessSource, type RateSource } from './resolve';
-import { GRAMS_PER_PENNYWEIGHT, TROY_OUNCE_GRAMS } from './units';
+import { PENNYWEIGHT_GRAMS_EXACT, TROY_OUNCE_GRAMS, TROY_OUNCE_GRAMS_EXACT } from './units';
 
 export const ROUNDING_RULE =
   "Each line's melt value and payout are rounded once, half-up, to the currency's minor unit; " +
@@ -117,12 +140,8 @@ export class QuoteValidationError extends Error {
 
 export type QuoteResult = { ok: true; quote: PricedQuote } | { ok: false; error: 'invalid-quote'; issues: QuoteIssue[] };
 
-function percentOf(part: number, whole: number): string | null {
-  return whole === 0 ? null : ratioToFixedHalfUp(new Dec(part).mul(HUNDRED), new Dec(whole), 2);
-}
-
-function grams(d: Dec | undefined): string | null {
-  return d === undefined ? null : toFixedHalfUp(d, GRAMS_PLACES);
+function grams(d: Exact | undefined): string | null {
+  return d === undefined ? null : exactToFixedHalfUp(d, GRAMS_PLACES);
 }
 
 
@@ -130,52 +149,61 @@ interface QuoteContext {
   readonly quote: ValidQuoteInput;
   readonly currency: CurrencyCode;
   readonly locale: string;
-  readonly scale: Dec;
-  readonly spotMinor: ReadonlyMap<Metal, Dec>;
+  readonly scale: Exact;
+  readonly spotMinor: ReadonlyMap<Metal, Exact>;
 }
 
 type LineBody = DistributiveOmit<QuoteLine, 'index'>;
 type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
+type Writable<T> = { -readonly [K in keyof T]: T[K] };
 
 interface LineOutcome {
   readonly body: LineBody;
   readonly metal?: Metal;
   readonly meltMinor: number;
   readonly payoutMinor: number;
-  readonly fineOzt?: { readonly n: Dec; readonly d: Dec; readonly dKey: string };
+  readonly fineOzt?: { readonly n: Exact; readonly d: Exact; readonly dKey: string };
 }
 
 const finenessDisplay = new Map<string, string>();
 
-function displayFineness(exact: string | undefined, r: Ratio | undefined): string | null {
-  if (exact === undefined || r === undefined) return null;
-  let shown = finenessDisplay.get(exact);
+function displayFineness(text: string | undefined, r: Ratio | undefined): string | null {
+  if (text === undefined || r === undefined) return null;
+  let shown = finenessDisplay.get(text);
   if (shown === undefined) {
     shown = toTrimmed(ratioValue(r), FINENESS_PLACES);
     if (finenessDisplay.size > 10_000) finenessDisplay.clear();
-    finenessDisplay.set(exact, shown);
+    finenessDisplay.set(text, shown);
   }
   return shown;
+}
+
+const denominatorKeys = new WeakMap<Exact, string>();
+
+function denominatorKey(d: Exact): string {
+  let key = denominatorKeys.get(d);
+  if (key === undefined) {
+    key = exactToString(d);
+    denominatorKeys.set(d, key);
+  }
+  return key;
 }
 
 function priceLine(line: ValidQuoteLine, index: number, ctx: QuoteContext): LineOutcome {
   const { quote, currency, locale, scale } = ctx;
   const r = resolveLine(line, index, quote);
-  const base = line.description !== undefined ? { kind: line.kind, description: line.description } : { kind: line.kind };
   if (r.status === 'invalid') throw new QuoteValidationError([{ path: `lines.${index}`, message: 'line did not pass validation' }]);
+  // Bodies are built key by key, in the output's order, and frozen part by part as built: a spread or a
+  // generic deep freeze of each line cost more than its arithmetic. The cache freezes the body itself.
   if (r.status !== 'priced') {
-    return {
-      body: {
-        ...base,
-        status: r.status,
-        mark: r.reading,
-        message: r.message,
-        grossWeightGrams: grams(r.weights?.grossGrams),
-        netWeightGrams: grams(r.weights?.netGrams),
-      },
-      meltMinor: 0,
-      payoutMinor: 0,
-    };
+    const unpriced = { kind: line.kind } as Writable<Omit<UnpricedLine, 'index'>>;
+    if (line.description !== undefined) unpriced.description = line.description;
+    unpriced.status = r.status;
+    unpriced.mark = deepFreeze(r.reading);
+    unpriced.message = r.message;
+    unpriced.grossWeightGrams = grams(r.weights?.grossGrams);
+    unpriced.netWeightGrams = grams(r.weights?.netGrams);
+    return { body: unpriced, meltMinor: 0, payoutMinor: 0 };
   }
   const spot = quote.spot[r.metal];
   const spotMinor = ctx.spotMinor.get(r.metal);
@@ -184,67 +212,79 @@ function priceLine(line: ValidQuoteLine, index: number, ctx: QuoteContext): Line
   }
   // melt = fine ozt x spot; fine ozt = n/d exactly; one rounding per amount (ROUNDING_RULE).
   const { n, d } = r.fineOzt;
-  const meltExactN = n.mul(spotMinor);
+  const meltExactN = mulExact(n, spotMinor);
   const meltMinor = roundToMinorHalfUp(meltExactN, d);
-  let payoutMinor: number;
-  let payoutRate: Omit<PayoutRate, 'effectivePercentOfMelt'>;
-  if (r.rule.basis === 'percent-of-melt') {
-    payoutMinor = roundToMinorHalfUp(meltExactN.mul(parseRatio(r.rule.percent).n), d.mul(HUNDRED));
-    payoutRate = { basis: 'percent-of-melt', percent: r.rule.percent, source: r.ruleSource, rateCategory: r.rateCategory };
-  } else {
-    const perOunce = Dec.max(ZERO, new Dec(spot).minus(r.rule.amountPerTroyOunce));
-    payoutMinor = roundToMinorHalfUp(n.mul(perOunce).mul(scale), d);
-    payoutRate = { basis: 'under-spot', amountUnderSpotPerTroyOunce: r.rule.amountPerTroyOunce, source: r.ruleSource, rateCategory: r.rateCategory };
-  }
+  const rule = r.rule;
+  const payoutMinor =
+    rule.basis === 'percent-of-melt'
+      ? roundToMinorHalfUp(mulExact(meltExactN, parseRatio(rule.percent).n), mulExact(d, EXACT_HUNDRED))
+      : roundToMinorHalfUp(mulExact(mulExact(n, maxExact(EXACT_ZERO, subExact(exact(spot), exact(rule.amountPerTroyOunce)))), scale), d);
   const marginMinor = meltMinor - payoutMinor;
+  const effectivePercentOfMelt = percentOfMinor(payoutMinor, meltMinor);
+  const payoutRate: PayoutRate =
+    rule.basis === 'percent-of-melt'
+      ? { basis: 'percent-of-melt', percent: rule.percent, source: r.ruleSource, rateCategory: r.rateCategory, effectivePercentOfMelt }
+      : { basis: 'under-spot', amountUnderSpotPerTroyOunce: rule.amountPerTroyOunce, source: r.ruleSource, rateCategory: r.rateCategory, effectivePercentOfMelt };
   const w = r.weights;
-  const body: LineBody = {
-    ...base,
-    status: 'priced',
-    metal: r.metal,
-    ...(r.reading ? { mark: r.reading } : {}),
-    markedFineness: displayFineness(r.markedExact, r.marked),
-    markedFinenessExact: r.markedExact ?? null,
-    paidOnFineness: displayFineness(r.paidOnExact, r.paidOn),
-    paidOnFinenessExact: r.paidOnExact ?? null,
-    finenessSource: r.finenessSource,
-    grossWeightGrams: grams(w?.grossGrams ?? r.grossGramsTotal),
-    tareGrams: grams(w?.tareGrams),
-    deductionsGrams: grams(w?.deductionsGrams),
-    netWeightGrams: grams(w?.netGrams),
-    fineWeightGrams: r.fineGrams ? ratioToFixedHalfUp(r.fineGrams.n, r.fineGrams.d, GRAMS_PLACES) : ratioToFixedHalfUp(n.mul(TROY_OUNCE_GRAMS), d, GRAMS_PLACES),
-    fineWeightTroyOunces: ratioToFixedHalfUp(n, d, TROY_OUNCE_PLACES),
-    spotPerTroyOunce: spot,
-    meltValue: moneyOf(meltMinor, currency, locale),
-    payoutRate: { ...payoutRate, effectivePercentOfMelt: percentOf(payoutMinor, meltMinor) },
-    payout: moneyOf(payoutMinor, currency, locale),
-    margin: moneyOf(marginMinor, currency, locale),
-    marginPercentOfMelt: percentOf(marginMinor, meltMinor),
-    ...(line.kind === 'coin' ? { coin: { coinType: line.coinType, count: line.count, label: coinSpec(line.coinType)!.label } } : {}),
-    ...(line.kind === 'face-value'
-      ? { faceValue: { coinClass: line.coinClass, faceValue: line.faceValue, basis: line.basis, label: faceValueClass(line.coinClass)!.label } }
-      : {}),
-    notes: r.notes,
-  };
-  return { body, metal: r.metal, meltMinor, payoutMinor, fineOzt: { n, d, dKey: d.toFixed() } };
+  const body = { kind: line.kind } as Writable<Omit<PricedLine, 'index'>>;
+  if (line.description !== undefined) body.description = line.description;
+  body.status = 'priced';
+  body.metal = r.metal;
+  if (r.reading) body.mark = deepFreeze(r.reading);
+  body.markedFineness = displayFineness(r.markedExact, r.marked);
+  body.markedFinenessExact = r.markedExact ?? null;
+  body.paidOnFineness = displayFineness(r.paidOnExact, r.paidOn);
+  body.paidOnFinenessExact = r.paidOnExact ?? null;
+  body.finenessSource = r.finenessSource;
+  body.grossWeightGrams = grams(w?.grossGrams ?? r.grossGramsTotal);
+  body.tareGrams = grams(w?.tareGrams);
+  body.deductionsGrams = grams(w?.deductionsGrams);
+  body.netWeightGrams = grams(w?.netGrams);
+  body.fineWeightGrams = r.fineGrams
+    ? exactRatioToFixedHalfUp(r.fineGrams.n, r.fineGrams.d, GRAMS_PLACES)
+    : exactRatioToFixedHalfUp(mulExact(n, TROY_OUNCE_GRAMS_EXACT), d, GRAMS_PLACES);
+  body.fineWeightTroyOunces = exactRatioToFixedHalfUp(n, d, TROY_OUNCE_PLACES);
+  body.spotPerTroyOunce = spot;
+  body.meltValue = Object.freeze(moneyOf(meltMinor, currency, locale));
+  body.payoutRate = Object.freeze(payoutRate);
+  body.payout = Object.freeze(moneyOf(payoutMinor, currency, locale));
+  body.margin = Object.freeze(moneyOf(marginMinor, currency, locale));
+  body.marginPercentOfMelt = percentOfMinor(marginMinor, meltMinor);
+  if (line.kind === 'coin') body.coin = Object.freeze({ coinType: line.coinType, count: line.count, label: coinSpec(line.coinType)!.label });
+  if (line.kind === 'face-value') {
+    body.faceValue = Object.freeze({ coinClass: line.coinClass, faceValue: line.faceValue, basis: line.basis, label: faceValueClass(line.coinClass)!.label });
+  }
+  body.notes = Object.freeze(r.notes);
+  return { body, metal: r.metal, meltMinor, payoutMinor, fineOzt: { n, d, dKey: denominatorKey(d) } };
 }
 
 /**
- * Priced lines keyed by the line's content and everything of the ticket that can change its price.
+ * Priced lines keyed by everything of the ticket that can change a price, then by the line's content.
  * The counter re-prices on each keystroke, when all lines but one are unchanged.
  */
-const lineCache = new Map<string, LineOutcome>();
+const lineCache = new Map<string, Map<string, LineOutcome>>();
+let lineCacheSize = 0;
 const LINE_CACHE_LIMIT = 4000;
 
 export function clearPricingCaches(): void {
   lineCache.clear();
+  lineCacheSize = 0;
   finenessDisplay.clear();
 }
 
+function ticketLineCache(ticketKey: string): Map<string, LineOutcome> {
+  let found = lineCache.get(ticketKey);
+  if (found === undefined) {
+    found = new Map();
+    lineCache.set(ticketKey, found);
+  }
+  return found;
+}
+
 function deepFreeze<T>(value: T): T {
-  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
+  if (typeof value === 'object' && value !== null && !Object.isFrozen(value)) {
     Object.freeze(value);
-    for (const v of Object.values(value)) deepFreeze(v);
+    for (const key in value) deepFreeze(value[key]);
   }
   return value;
 }
@@ -256,18 +296,18 @@ function deepFreeze<T>(value: T): T {
 export function priceQuoteUnchecked(quote: ValidQuoteInput): PricedQuote {
   const currency = quote.currency;
   const locale = quote.locale;
-  const scale = minorPerMajor(currency);
-  const spotMinor = new Map<Metal, Dec>();
+  const scale = exactPowerOfTen(currencyExponent(currency));
+  const spotMinor = new Map<Metal, Exact>();
   const spotShown: Partial<Record<Metal, SpotShown>> = {};
   for (const metal of METALS) {
     const s = quote.spot[metal];
     if (s === undefined) continue;
-    const spot = new Dec(s);
-    spotMinor.set(metal, spot.mul(scale));
+    const spot = exact(s);
+    spotMinor.set(metal, mulExact(spot, scale));
     spotShown[metal] = {
       perTroyOunce: s,
-      perGram: toFixedHalfUp(spot.div(TROY_OUNCE_GRAMS), 4),
-      perPennyweight: toFixedHalfUp(spot.mul(GRAMS_PER_PENNYWEIGHT).div(TROY_OUNCE_GRAMS), 4),
+      perGram: exactRatioToFixedHalfUp(spot, TROY_OUNCE_GRAMS_EXACT, 4),
+      perPennyweight: exactRatioToFixedHalfUp(mulExact(spot, PENNYWEIGHT_GRAMS_EXACT), TROY_OUNCE_GRAMS_EXACT, 4),
     };
   }
   const ctx: QuoteContext = { quote, currency, locale, scale, spotMinor };
@@ -277,15 +317,22 @@ export function priceQuoteUnchecked(quote: ValidQuoteInput): PricedQuote {
   const meltAll: number[] = [];
   const payoutAll: number[] = [];
   // Fine ounces per metal kept exact: numerators summed per distinct denominator.
-  const byMetal = new Map<Metal, { fineOztByDenominator: Map<string, { n: Dec; d: Dec }>; melt: number[]; payout: number[] }>();
+  const byMetal = new Map<Metal, { fineOztByDenominator: Map<string, { n: Exact; d: Exact }>; melt: number[]; payout: number[] }>();
 
+  let cached = ticketLineCache(ticketKey);
   quote.lines.forEach((line, index) => {
-    const key = `${ticketKey}|${JSON.stringify(line)}`;
-    let outcome = lineCache.get(key);
+    const key = JSON.stringify(line);
+    let outcome = cached.get(key);
     if (outcome === undefined) {
-      outcome = deepFreeze(priceLine(line, index, ctx));
-      if (lineCache.size >= LINE_CACHE_LIMIT) lineCache.clear();
-      lineCache.set(key, outcome);
+      outcome = priceLine(line, index, ctx);
+      Object.freeze(outcome.body);
+      if (lineCacheSize >= LINE_CACHE_LIMIT) {
+        lineCache.clear();
+        lineCacheSize = 0;
+        cached = ticketLineCache(ticketKey);
+      }
+      cached.set(key, outcome);
+      lineCacheSize++;
     }
     lines.push({ index, ...outcome.body } as QuoteLine);
     if (outcome.metal === undefined || outcome.fineOzt === undefined) return;
@@ -298,7 +345,7 @@ export function priceQuoteUnchecked(quote: ValidQuoteInput): PricedQuote {
     }
     const { n, d, dKey } = outcome.fineOzt;
     const group = metalTotal.fineOztByDenominator.get(dKey);
-    if (group) group.n = group.n.plus(n);
+    if (group) group.n = addExact(group.n, n);
     else metalTotal.fineOztByDenominator.set(dKey, { n, d });
     metalTotal.melt.push(outcome.meltMinor);
     metalTotal.payout.push(outcome.payoutMinor);
@@ -314,7 +361,7 @@ export function priceQuoteUnchecked(quote: ValidQuoteInput): PricedQuote {
     const melt = sumMinor(t.melt);
     const payout = sumMinor(t.payout);
     let fineOzt = ZERO;
-    for (const g of t.fineOztByDenominator.values()) fineOzt = fineOzt.plus(g.d.eq(1) ? g.n : g.n.div(g.d));
+    for (const g of t.fineOztByDenominator.values()) fineOzt = fineOzt.plus(isOneExact(g.d) ? exactToDec(g.n) : exactToDec(g.n).div(exactToDec(g.d)));
     metalTotals.push({
       metal,
       fineWeightGrams: toFixedHalfUp(fineOzt.mul(TROY_OUNCE_GRAMS), GRAMS_PLACES),
@@ -334,7 +381,7 @@ export function priceQuoteUnchecked(quote: ValidQuoteInput): PricedQuote {
       meltValue: moneyOf(meltTotal, currency, locale),
       payout: moneyOf(payoutTotal, currency, locale),
       margin: moneyOf(marginTotal, currency, locale),
-      marginPercentOfMelt: percentOf(marginTotal, meltTotal),
+      marginPercentOfMelt: percentOfMinor(marginTotal, meltTotal),
       pricedLineCount,
       unpricedLineCount: lines.length - pricedLineCount,
       byMetal: metalTotals,

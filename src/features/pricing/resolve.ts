@@ -1,9 +1,26 @@
 import { coinSpec, faceValueClass } from './coins';
-import { Dec, HUNDRED, ZERO, parseRatio, ratioValue, type Ratio } from './decimal';
+import {
+  EXACT_ONE,
+  EXACT_ZERO,
+  ONE,
+  addExact,
+  cmpExact,
+  exact,
+  exactInt,
+  exactToString,
+  isMultipleExact,
+  mulExact,
+  parseRatio,
+  percentOfExact,
+  ratioThresholdTest,
+  subExact,
+  type Exact,
+  type Ratio,
+} from './decimal';
 import { parseMark, resolveMarkForMetal, type MarkReading } from './marks';
 import type { Metal } from './metals';
 import { DEFAULT_RATES, resolveRateCategory, type RateCategory, type RateRule } from './rates';
-import { TROY_OUNCE_GRAMS } from './units';
+import { TROY_OUNCE_GRAMS_EXACT } from './units';
 import type {
   ValidCoinLine,
   ValidFaceValueLine,
@@ -22,10 +39,10 @@ export type FinenessSource = 'mark' | 'assumed' | 'test' | 'catalogue' | 'face-v
 export type RateSource = 'default' | 'store' | 'ticket-override' | 'line-override';
 
 export interface WeightBreakdown {
-  grossGrams: Dec;
-  tareGrams: Dec;
-  deductionsGrams: Dec;
-  netGrams: Dec;
+  grossGrams: Exact;
+  tareGrams: Exact;
+  deductionsGrams: Exact;
+  netGrams: Exact;
 }
 
 export interface PricedResolution {
@@ -47,7 +64,7 @@ export interface PricedResolution {
   finenessSource: FinenessSource;
   reading?: MarkReading;
   weights?: WeightBreakdown;
-  grossGramsTotal?: Dec;
+  grossGramsTotal?: Exact;
   notes: string[];
 }
 
@@ -61,6 +78,7 @@ export interface UnpricedResolution {
 export type LineResolution = PricedResolution | UnpricedResolution | { status: 'invalid' };
 
 type QuoteContext = Pick<ValidQuoteInput, 'rates' | 'rateOverride' | 'assumedFineness'>;
+type Writable<T> = { -readonly [K in keyof T]: T[K] };
 
 function effectiveRule(
   line: ValidQuoteLine,
@@ -76,27 +94,27 @@ function effectiveRule(
 }
 
 function weighLine(line: ValidWeightLine, index: number, issues: Issue[] | null): WeightBreakdown | null {
-  const gross = new Dec(line.grossWeight.grams);
-  const tare = line.tare ? new Dec(line.tare.grams) : ZERO;
-  if (tare.gte(gross)) {
+  const gross = exact(line.grossWeight.grams);
+  const tare = line.tare ? exact(line.tare.grams) : EXACT_ZERO;
+  if (cmpExact(tare, gross) >= 0) {
     issues?.push({ path: ['lines', index, 'tare', 'value'], message: 'tare must be less than the gross weight' });
     return null;
   }
-  const afterTare = gross.minus(tare);
-  let deductions = ZERO;
+  const afterTare = subExact(gross, tare);
+  let deductions = EXACT_ZERO;
   let ok = true;
   line.deductions.forEach((d, j) => {
-    const grams = d.kind === 'grams' ? new Dec(d.value) : afterTare.mul(d.value).div(HUNDRED);
-    if (d.kind === 'grams' && grams.gt(gross)) {
-      issues?.push({ path: ['lines', index, 'deductions', j, 'value'], message: `deduction of ${d.value} g is larger than the gross weight (${gross.toFixed()} g)` });
+    const grams = d.kind === 'grams' ? exact(d.value) : percentOfExact(afterTare, exact(d.value));
+    if (d.kind === 'grams' && cmpExact(grams, gross) > 0) {
+      issues?.push({ path: ['lines', index, 'deductions', j, 'value'], message: `deduction of ${d.value} g is larger than the gross weight (${exactToString(gross)} g)` });
       ok = false;
     }
-    deductions = deductions.plus(grams);
+    deductions = addExact(deductions, grams);
   });
   if (!ok) return null;
-  const net = afterTare.minus(deductions);
-  if (net.lte(0)) {
-    issues?.push({ path: ['lines', index, 'deductions'], message: `tare and deductions leave no metal (net ${net.toFixed()} g)` });
+  const net = subExact(afterTare, deductions);
+  if (net.m <= 0n) {
+    issues?.push({ path: ['lines', index, 'deductions'], message: `tare and deductions leave no metal (net ${exactToString(net)} g)` });
     return null;
   }
   return { grossGrams: gross, tareGrams: tare, deductionsGrams: deductions, netGrams: net };
@@ -111,7 +129,27 @@ function priced(
   rest: Omit<PricedResolution, 'status' | 'metal' | 'rateCategory' | 'rule' | 'ruleSource' | 'rulePath'>,
 ): PricedResolution {
   const { rule, source, path } = effectiveRule(line, index, category, quote);
-  return { status: 'priced', metal, rateCategory: category, rule, ruleSource: source, rulePath: path, ...rest };
+  // rest is always a fresh literal; completing it in place avoids a spread per line.
+  const resolution = rest as Writable<PricedResolution>;
+  resolution.status = 'priced';
+  resolution.metal = metal;
+  resolution.rateCategory = category;
+  resolution.rule = rule;
+  resolution.ruleSource = source;
+  resolution.rulePath = path;
+  return resolution;
+}
+
+const troyOunceDenominators = new WeakMap<Ratio, Exact>();
+
+/** Denominator of the fine troy ounces for a fineness: one object per fineness, so totals can group by it cheaply. */
+function troyOunceDenominator(fineness: Ratio): Exact {
+  let found = troyOunceDenominators.get(fineness);
+  if (found === undefined) {
+    found = mulExact(fineness.d, TROY_OUNCE_GRAMS_EXACT);
+    troyOunceDenominators.set(fineness, found);
+  }
+  return found;
 }
 
 function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteContext, issues: Issue[] | null): LineResolution {
@@ -128,9 +166,9 @@ function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteCon
     }
     if (reading?.metal && reading.metal !== metal) notes.push(`Marked ${reading.label}; priced on the test as ${metal}.`);
     const tested = parseRatio(line.fineness);
-    const fineGramsN = weights.netGrams.mul(tested.n);
-    return priced(line, index, quote, metal, resolveRateCategory(metal, line.category, ratioValue(tested)), {
-      fineOzt: { n: fineGramsN, d: tested.d.mul(TROY_OUNCE_GRAMS) },
+    const fineGramsN = mulExact(weights.netGrams, tested.n);
+    return priced(line, index, quote, metal, resolveRateCategory(metal, line.category, ratioThresholdTest(tested)), {
+      fineOzt: { n: fineGramsN, d: troyOunceDenominator(tested) },
       fineGrams: { n: fineGramsN, d: tested.d },
       marked: tested,
       markedExact: line.fineness,
@@ -162,9 +200,10 @@ function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteCon
   const assumed = quote.assumedFineness[chosen.key];
   const paidOn = assumed !== undefined ? parseRatio(assumed) : marked;
   if (reading.kind === 'needs-test') notes.push(`Read as ${chosen.label} because the line says ${chosen.metal}.`);
-  return priced(line, index, quote, chosen.metal, resolveRateCategory(chosen.metal, line.category, ratioValue(marked), reading.kind === 'filled'), {
-    fineOzt: { n: weights.netGrams.mul(paidOn.n), d: paidOn.d.mul(TROY_OUNCE_GRAMS) },
-    fineGrams: { n: weights.netGrams.mul(paidOn.n), d: paidOn.d },
+  const fineGramsN = mulExact(weights.netGrams, paidOn.n);
+  return priced(line, index, quote, chosen.metal, resolveRateCategory(chosen.metal, line.category, ratioThresholdTest(marked), reading.kind === 'filled'), {
+    fineOzt: { n: fineGramsN, d: troyOunceDenominator(paidOn) },
+    fineGrams: { n: fineGramsN, d: paidOn.d },
     marked,
     markedExact: chosen.finenessExact,
     paidOn,
@@ -179,14 +218,14 @@ function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteCon
 function resolveCoinLine(line: ValidCoinLine, index: number, quote: QuoteContext): LineResolution {
   const spec = coinSpec(line.coinType)!;
   const fineness = parseRatio(spec.fineness);
-  return priced(line, index, quote, spec.metal, resolveRateCategory(spec.metal, spec.category, ratioValue(fineness)), {
-    fineOzt: { n: new Dec(spec.fineTroyOunces).mul(line.count), d: new Dec(1) },
+  return priced(line, index, quote, spec.metal, resolveRateCategory(spec.metal, spec.category, ratioThresholdTest(fineness)), {
+    fineOzt: { n: mulExact(exact(spec.fineTroyOunces), exactInt(line.count)), d: EXACT_ONE },
     marked: fineness,
     markedExact: spec.fineness,
     paidOn: fineness,
     paidOnExact: spec.fineness,
     finenessSource: 'catalogue',
-    grossGramsTotal: new Dec(spec.grossWeightGrams).mul(line.count),
+    grossGramsTotal: mulExact(exact(spec.grossWeightGrams), exactInt(line.count)),
     notes: [`${line.count} x ${spec.fineTroyOunces} ozt stated fine content (${spec.source}).`],
   });
 }
@@ -198,14 +237,14 @@ function resolveFaceValueLine(line: ValidFaceValueLine, index: number, quote: Qu
     issues?.push({ path: ['lines', index, 'basis'], message: `${line.coinClass} has no ${line.basis} figure; use ${Object.keys(cls.troyOuncesPerDollarFace).join(' or ')}` });
     return { status: 'invalid' };
   }
-  const face = new Dec(line.faceValue);
-  if (!face.mod(cls.faceStep).isZero()) {
+  const face = exact(line.faceValue);
+  if (!isMultipleExact(face, exact(cls.faceStep))) {
     issues?.push({ path: ['lines', index, 'faceValue'], message: `must be a multiple of ${cls.faceStep} for ${line.coinClass} coin` });
     return { status: 'invalid' };
   }
   const fineness = parseRatio(cls.fineness);
-  return priced(line, index, quote, cls.metal, resolveRateCategory(cls.metal, 'coin', ratioValue(fineness)), {
-    fineOzt: { n: face.mul(perDollar), d: new Dec(1) },
+  return priced(line, index, quote, cls.metal, resolveRateCategory(cls.metal, 'coin', ratioThresholdTest(fineness)), {
+    fineOzt: { n: mulExact(face, exact(perDollar)), d: EXACT_ONE },
     marked: fineness,
     markedExact: cls.fineness,
     paidOn: fineness,
@@ -218,9 +257,10 @@ function resolveFaceValueLine(line: ValidFaceValueLine, index: number, quote: Qu
 }
 
 function resolveFineWeightLine(line: ValidFineWeightLine, index: number, quote: QuoteContext): LineResolution {
-  return priced(line, index, quote, line.metal, resolveRateCategory(line.metal, line.category, new Dec(1)), {
-    fineOzt: { n: new Dec(line.fineWeight.grams), d: TROY_OUNCE_GRAMS },
-    fineGrams: { n: new Dec(line.fineWeight.grams), d: new Dec(1) },
+  const grams = exact(line.fineWeight.grams);
+  return priced(line, index, quote, line.metal, resolveRateCategory(line.metal, line.category, ONE), {
+    fineOzt: { n: grams, d: TROY_OUNCE_GRAMS_EXACT },
+    fineGrams: { n: grams, d: EXACT_ONE },
     finenessSource: 'assay',
     notes: [],
   });
@@ -251,7 +291,7 @@ export function checkQuoteConsistency(quote: ValidQuoteInput): Issue[] {
       if (!missingSpot.has(r.metal)) missingSpot.set(r.metal, index);
       return;
     }
-    if (r.rule.basis === 'under-spot' && new Dec(r.rule.amountPerTroyOunce).gt(spot)) {
+    if (r.rule.basis === 'under-spot' && cmpExact(exact(r.rule.amountPerTroyOunce), exact(spot)) > 0) {
       issues.push({
         path: [...r.rulePath, 'amountPerTroyOunce'],
         message: `amount under spot (${r.rule.amountPerTroyOunce}) is more than the ${r.metal} spot (${spot}); the payout would be negative`,

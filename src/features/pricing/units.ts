@@ -1,4 +1,4 @@
-import { Dec, dec } from './decimal';
+import { Dec, dec, exact, type Exact } from './decimal';
 
 export const WEIGHT_UNITS = ['g', 'kg', 'ozt', 'dwt', 'gr'] as const;
 export type WeightUnit = (typeof WEIGHT_UNITS)[number];
@@ -19,6 +19,8 @@ const GRAMS_PER_UNIT: Record<WeightUnit, Dec> = {
 };
 
 export const TROY_OUNCE_GRAMS: Dec = GRAMS_PER_UNIT.ozt;
+export const TROY_OUNCE_GRAMS_EXACT: Exact = exact(GRAMS_PER_TROY_OUNCE);
+export const PENNYWEIGHT_GRAMS_EXACT: Exact = exact(GRAMS_PER_PENNYWEIGHT);
 
 export const WEIGHT_UNIT_LABELS: Record<WeightUnit, string> = {
   g: 'grams',
