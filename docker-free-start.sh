@@ -264,12 +264,14 @@ run_vitest() {
 
 # One closing line for every kind run: "summary: N passed, N failed".
 print_summary() {
-  local passed=0 failed=0 n
+  local passed=0 failed=0 n line
   for f in "$ROOT"/.local/vitest-*.log; do
     [[ -f "$f" ]] || continue
-    n=$(grep -E '^ +Tests ' "$f" | grep -oE '[0-9]+ passed' | grep -oE '[0-9]+' | head -n 1 || true)
+    # vitest colours its output when CI is set; read the counts without the colour codes.
+    line=$(sed -E 's/\x1b\[[0-9;]*m//g' "$f" | grep -E '^ +Tests ' | tail -n 1 || true)
+    n=$(grep -oE '[0-9]+ passed' <<<"$line" | grep -oE '[0-9]+' | head -n 1 || true)
     passed=$((passed + ${n:-0}))
-    n=$(grep -E '^ +Tests ' "$f" | grep -oE '[0-9]+ failed' | grep -oE '[0-9]+' | head -n 1 || true)
+    n=$(grep -oE '[0-9]+ failed' <<<"$line" | grep -oE '[0-9]+' | head -n 1 || true)
     failed=$((failed + ${n:-0}))
   done
   echo "summary: ${passed} passed, ${failed} failed"
