@@ -16,6 +16,7 @@ import { recordAudit } from '@/features/audit/audit.server';
 import { signInWithPassword, type SessionUser } from '@/features/auth/users.server';
 import { currencyExponent, minorPerMajor, type CurrencyCode } from '@/features/pricing/money';
 import { decimalToMinor } from './money-input';
+import { storeById } from '@/features/stores/stores.server';
 import type { PricedLine } from '@/features/pricing/pricing';
 import type { Metal } from '@/features/pricing/metals';
 import { getStoreSettings } from '@/features/settings/settings.server';
@@ -75,7 +76,7 @@ const ACTION_PAST: Record<TicketAction, string> = {
 };
 
 async function storeOf(db: DbOrTx, storeId: string) {
-  const [s] = await db.select().from(stores).where(eq(stores.id, storeId));
+  const s = await storeById(db, storeId);
   if (!s) throw new AppError(404, 'No such store');
   return s;
 }
