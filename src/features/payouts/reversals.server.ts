@@ -170,3 +170,14 @@ export async function pendingReversals(db: DbOrTx, storeId: string) {
     .from(payments)
     .where(and(eq(payments.storeId, storeId), eq(payments.kind, 'reversal'), eq(payments.state, 'pending')));
 }
+
+/** A manager asks the provider again for a reversal it refused or has not confirmed. */
+export async function retryReversal(db: Db, actor: SessionUser, reversalId: string) {
+  if (actor.role !== 'manager' && actor.role !== 'admin') throw new AppError(403, 'Only a manager asks for a reversal again');
+  const [row] = await db.select().from(payments).where(eq(payments.id, reversalId));
+  if (!row || row.kind !== 'reversal' || (actor.role !== 'admin' && row.storeId !== actor.storeId)) throw new AppError(404, 'No such reversal');
+  if (row.state !== 'pending') throw new AppError(409, `This reversal is already ${row.state}`);
+  await db.update(payments).set({ nextSendAt: new Date() }).where(eq(payments.id, reversalId));
+  const after = await sendReversal(db, reversalId);
+  return { id: reversalId, state: after?.state ?? 'pending', lastError: after?.lastError ?? null };
+}
