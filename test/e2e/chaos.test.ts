@@ -217,6 +217,8 @@ describe('chaos: 100 parallel pay requests while the app is killed and restarted
     const payouts = state.payouts.filter((p) => p.account === account.providerAccountId);
     expect(transfers.map((tr) => tr.amount)).toEqual([ticket!.payoutMinor]);
     expect(payouts.map((p) => `${p.payout.amount}:${p.payout.status}`)).toEqual([`${ticket!.payoutMinor}:paid`]);
+    // Once the provider has accepted the payout nobody sends it again, however many requests come after.
+    expect(await db.select().from(auditLog).where(and(eq(auditLog.entityId, t.id), eq(auditLog.action, 'payment.electronic-sent')))).toHaveLength(1);
     expect(await db.select().from(auditLog).where(and(eq(auditLog.entityId, t.id), eq(auditLog.action, 'ticket.pay')))).toHaveLength(1);
   });
 });

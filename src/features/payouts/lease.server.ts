@@ -9,7 +9,8 @@ export type PaymentRow = typeof payments.$inferSelect;
 /**
  * Takes the send lease of a pending electronic payment: one sender at a time, whatever the number of
  * requests, tabs, app processes or worker ticks. A sender that dies keeps the lease until it runs out.
- * Returns the row when this caller holds the lease, null when someone else does or it is not pending.
+ * Returns the row when this caller holds the lease, null when someone else does, it is not pending,
+ * or it is a payout the provider already accepted.
  */
 export async function claimSend(db: DbOrTx, paymentId: string): Promise<PaymentRow | null> {
   const leaseMs = sendLeaseMs();
@@ -21,6 +22,8 @@ export async function claimSend(db: DbOrTx, paymentId: string): Promise<PaymentR
         eq(payments.id, paymentId),
         eq(payments.state, 'pending'),
         eq(payments.method, 'electronic'),
+        // A payout the provider has accepted is only looked up now (reconciliation), not sent again.
+        sql`(${payments.kind} = 'reversal' or ${payments.providerPayoutId} is null)`,
         sql`(${payments.sendingSince} is null or ${payments.sendingSince} < now() - make_interval(secs => ${leaseMs / 1000}))`,
       ),
     )
