@@ -26,6 +26,14 @@ const CATEGORY_LABELS: Record<string, string> = {
   bullion: 'Bullion',
 };
 
+/** The coin list grouped by issuer, in catalogue order. */
+const COINS_BY_ISSUER: [string, (typeof COIN_CATALOGUE)[number][]][] = [];
+for (const c of COIN_CATALOGUE) {
+  const group = COINS_BY_ISSUER.find(([issuer]) => issuer === c.issuer);
+  if (group) group[1].push(c);
+  else COINS_BY_ISSUER.push([c.issuer, [c]]);
+}
+
 const BASIS_CHOICES: Record<FaceValueBasis, string> = {
   'common-practice': 'Circulated (common practice)',
   'mint-weight': 'Mint weight (uncirculated)',
@@ -107,10 +115,14 @@ function LineEditorImpl({ index, line, onChange, onRemove, disabled, summary }: 
                 Coin or bullion type
               </label>
               <select id={id('coin')} className="field-input" value={line.coinType} onChange={(e) => set({ coinType: e.target.value })}>
-                {COIN_CATALOGUE.map((c) => (
-                  <option key={c.coinType} value={c.coinType}>
-                    {c.label}
-                  </option>
+                {COINS_BY_ISSUER.map(([issuer, coins]) => (
+                  <optgroup key={issuer} label={issuer}>
+                    {coins.map((c) => (
+                      <option key={c.coinType} value={c.coinType}>
+                        {c.label}
+                      </option>
+                    ))}
+                  </optgroup>
                 ))}
               </select>
             </div>
