@@ -396,6 +396,11 @@ export default function TicketWorkbench({ initial }: Props) {
               {pendingPayout ? (
                 <p role="status" className="rounded-md bg-amber-50 p-2 font-semibold text-amber-900" data-testid="payout-pending">
                   Electronic payout of {fmt(pendingPayout.amountMinor)} on its way; waiting for the payment provider to confirm.
+                  {pendingPayout.lastError && (
+                    <span className="mt-1 block text-sm font-normal">
+                      The provider has not answered the last try yet ({pendingPayout.lastError}). Cupel asks again with the same request, so the seller is paid once; do not pay another way.
+                    </span>
+                  )}
                 </p>
               ) : (
                 <>
@@ -503,6 +508,13 @@ export default function TicketWorkbench({ initial }: Props) {
             </div>
           )}
           {d.ticket.state === 'voided' && <p className="font-semibold text-red-800">Voided: {d.ticket.voidReason}</p>}
+          {d.ticket.payments
+            .filter((p) => p.kind === 'reversal' && p.state === 'pending')
+            .map((p) => (
+              <p key={p.id} role="status" className="rounded-md bg-amber-50 p-2 text-sm font-semibold text-amber-900" data-testid="reversal-pending">
+                Reversal of {fmt(p.amountMinor)} pending: not returned until the payment provider confirms it or a manager records the recovery on the review page.
+              </p>
+            ))}
         </section>
       </aside>
     </div>
