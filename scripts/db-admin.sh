@@ -89,7 +89,7 @@ backup_database() {
 
 # Checks the file, then makes sure the database is fresh: missing, empty, or (with --force) backed up and dropped.
 prepare_restore_target() {
-  local db=$1 file=$2 force=$3 relations
+  local db=$1 file=$2 force=$3 relations tables
   [[ -f "$file" && -r "$file" ]] || die "No such backup file: $file"
   if [[ -f "$file.sha256" ]]; then
     (cd "$(dirname "$file")" && sha256sum --check --quiet "$(basename "$file").sha256") \
@@ -97,14 +97,15 @@ prepare_restore_target() {
   fi
   "$PG_BIN/pg_restore" --list "$file" >/dev/null 2>&1 || die "$file is not a dump pg_restore can read (make one with ./docker-free-start.sh backup)"
   database_exists "$db" || return 0
-  relations="$(psql_admin_in "$db" -c "select count(*) from pg_class c join pg_namespace n on n.oid = c.relnamespace
-    where n.nspname <> 'information_schema' and n.nspname !~ '^pg_'")"
+  read -r relations tables < <(psql_admin_in "$db" -F ' ' -c "select count(*), count(*) filter (where c.relkind in ('r', 'p'))
+    from pg_class c join pg_namespace n on n.oid = c.relnamespace where n.nspname <> 'information_schema' and n.nspname !~ '^pg_'")
   [[ "$relations" == "0" ]] && return 0
   if [[ "$force" != 1 ]]; then
-    die "Database $db is not empty ($relations tables, indexes and sequences): refusing to overwrite it. Restore into a fresh database with --into NAME, or pass --force to replace it (it is backed up first)."
+    die "Database $db is not empty (it holds $tables tables): refusing to overwrite it. Restore into a fresh database with --into NAME, or pass --force to replace it (it is backed up first)."
   fi
-  log "--force: backing up $db before it is replaced"
-  backup_database "$db" >/dev/null
+  local saved
+  saved="$(backup_database "$db" | tail -n 1)"
+  log "--force: $db as it was is saved in $saved"
   log "dropping $db (connections to it are closed)"
   psql_admin -v db="$db" <<'SQL'
 select format('drop database %I with (force)', :'db') \gexec
