@@ -7,7 +7,7 @@ import type { PricedLine } from '@/features/pricing/pricing';
 import type { Metal } from '@/features/pricing/metals';
 import { ACID_TEST_CAUTIONS, displaySpot } from '../counter';
 import { fromCounterLine, newGradingLine, toCounterLine, type GradingLine } from '../grading';
-import { offerPercentages, priceTicket } from '../ticket-pricing';
+import { faceValueBasisLine, offerPercentages, priceTicket } from '../ticket-pricing';
 import type { WorkbenchData } from '../workbench.server';
 import { LineEditor } from './LineEditor';
 import { SignaturePad } from './SignaturePad';
@@ -194,6 +194,7 @@ export default function TicketWorkbench({ initial }: Props) {
                 melt: live.perLine[i]!.result ? live.perLine[i]!.result!.meltValue.formatted : null,
                 payout: live.perLine[i]!.result ? live.perLine[i]!.result!.payout.formatted : null,
                 fineWeight: live.perLine[i]!.result ? showWeight(live.perLine[i]!.result!.fineWeightGrams, showUnit) : null,
+                basis: faceValueBasisLine(live.perLine[i]!.result),
               }}
             />
           </div>
