@@ -200,7 +200,11 @@ export const storeSettings = pgTable(
   ],
 );
 
-/** Append-only record of who did what; a trigger (migration 0001) refuses UPDATE and DELETE. */
+/**
+ * Append-only record of who did what; a trigger (migration 0001) refuses UPDATE and DELETE, and the
+ * application's role may only read and insert. Each row is chained into audit_chain when its
+ * transaction commits (migration 0006).
+ */
 export const auditLog = pgTable(
   'audit_log',
   {
@@ -213,11 +217,38 @@ export const auditLog = pgTable(
     before: jsonb('before'),
     after: jsonb('after'),
     at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+    /** The writing transaction, so the database can check that a change to a record on file was audited with it. */
+    txId: bigint('tx_id', { mode: 'number' })
+      .notNull()
+      .default(sql`txid_current()`),
   },
   (t) => [
     index('audit_log_entity_idx').on(t.entity, t.entityId),
     index('audit_log_store_at_idx').on(t.storeId, t.at),
+    index('audit_log_tx_idx').on(t.txId),
     check('audit_log_action_format', sql`${t.action} ~ '^[a-z][a-z0-9_.-]*$'`),
+  ],
+);
+
+/**
+ * The audit log as a hash chain, one entry per audit row in commit order, written only by the
+ * database (a deferred trigger running as the owner): hash = sha256(prev_hash | position | row).
+ * `select * from audit_chain_breaks()` lists any entry that does not verify.
+ */
+export const auditChain = pgTable(
+  'audit_chain',
+  {
+    position: bigint('position', { mode: 'number' }).primaryKey(),
+    auditId: bigint('audit_id', { mode: 'number' })
+      .notNull()
+      .references(() => auditLog.id, { onDelete: 'restrict' }),
+    prevHash: text('prev_hash').notNull(),
+    hash: text('hash').notNull(),
+  },
+  (t) => [
+    uniqueIndex('audit_chain_audit_unique').on(t.auditId),
+    check('audit_chain_position_positive', sql`${t.position} > 0`),
+    check('audit_chain_hash_format', sql`${t.hash} ~ '^[0-9a-f]{64}$' and ${t.prevHash} ~ '^[0-9a-f]{64}$'`),
   ],
 );
 
