@@ -41,7 +41,8 @@ export class SimulatedBalance {
 
   /** Puts a load on the pan (or changes its settings). A new value moves for settleMs (default 600) first. */
   set(update: PanUpdate, now = Date.now()): PanState {
-    const next: PanState = { ...this.pan, ...stripUndefined(update) };
+    // A raw line lasts until something else is put on the pan.
+    const next: PanState = { ...this.pan, ...(update.raw === undefined ? { raw: null } : {}), ...stripUndefined(update) };
     if (!/^\d{1,7}(\.\d{1,5})?$/.test(next.value)) throw new Error('value must be a decimal like "12.345"');
     if (!/^[A-Za-z .]{1,6}$/.test(next.unit)) throw new Error('unit must be a short word like "g" or "dwt"');
     if (!LAYOUTS.includes(next.layout)) throw new Error(`layout must be one of ${LAYOUTS.join(', ')}`);

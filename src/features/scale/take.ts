@@ -78,7 +78,7 @@ export interface LineWeightFields {
   tareValue: string;
 }
 
-export type Placed = { ok: true; fields: LineWeightFields; said: string } | { ok: false; reason: string };
+export type Placed = { ok: true; fields: LineWeightFields; shown: string; note: string | null } | { ok: false; reason: string };
 
 /**
  * Puts a checked weight into a line. The line takes the balance's unit, so the screen shows what the
@@ -86,11 +86,12 @@ export type Placed = { ok: true; fields: LineWeightFields; said: string } | { ok
  * is written in the line's unit if that is exact; otherwise nothing changes and the reason is given.
  */
 export function placeWeight(weight: ScaleWeight, line: { grossUnit: WeightUnit; tareValue: string }): Placed {
-  const from = weight.shown === `${weight.value} ${weight.unit}` ? weight.shown : `${weight.shown} (${weight.value} ${weight.unit})`;
+  const converted = weight.shown !== `${weight.value} ${weight.unit}`;
+  const shown = converted ? `${weight.shown} (${weight.value} ${weight.unit})` : weight.shown;
   const tare = line.tareValue.trim();
   if (!tare || line.grossUnit === weight.unit) {
-    const unitNote = line.grossUnit === weight.unit ? '' : `; the line now weighs in ${WEIGHT_UNIT_LABELS[weight.unit]}`;
-    return { ok: true, fields: { grossValue: weight.value, grossUnit: weight.unit, tareValue: line.tareValue }, said: `${from}${unitNote}` };
+    const note = line.grossUnit === weight.unit ? null : `the line now weighs in ${WEIGHT_UNIT_LABELS[weight.unit]}`;
+    return { ok: true, fields: { grossValue: weight.value, grossUnit: weight.unit, tareValue: line.tareValue }, shown, note };
   }
   if (!/^\d+(\.\d+)?$/.test(tare)) return { ok: false, reason: 'The tare on this line is not a number yet: correct or clear it, then take the weight again.' };
   const tareInReadingUnit = convertExactly(tare, line.grossUnit, weight.unit);
@@ -98,12 +99,18 @@ export function placeWeight(weight: ScaleWeight, line: { grossUnit: WeightUnit; 
     return {
       ok: true,
       fields: { grossValue: weight.value, grossUnit: weight.unit, tareValue: tareInReadingUnit },
-      said: `${from}; tare ${tare} ${line.grossUnit} written as ${tareInReadingUnit} ${weight.unit}`,
+      shown,
+      note: `the tare of ${tare} ${line.grossUnit} is now written as ${tareInReadingUnit} ${weight.unit}`,
     };
   }
   const grossInLineUnit = convertExactly(weight.value, weight.unit, line.grossUnit);
   if (grossInLineUnit !== null) {
-    return { ok: true, fields: { grossValue: grossInLineUnit, grossUnit: line.grossUnit, tareValue: line.tareValue }, said: `${from} = ${grossInLineUnit} ${line.grossUnit}` };
+    return {
+      ok: true,
+      fields: { grossValue: grossInLineUnit, grossUnit: line.grossUnit, tareValue: line.tareValue },
+      shown,
+      note: `written as ${grossInLineUnit} ${line.grossUnit}, the unit of the tare`,
+    };
   }
   return {
     ok: false,

@@ -45,8 +45,10 @@ afterEach(() => {
 
 const pan = (update: Parameters<ScaleFake['balance']['set']>[0]) => fake.balance.set({ settleMs: 0, ...update });
 const reading = () => screen.getByTestId('scale-reading').textContent;
+/** The simulated scale prints every 25 ms; a loaded machine may take longer to pass a line through. */
+const soon = { timeout: 5_000 };
 
-describe('the scale control on the ticket screen', () => {
+describe('the scale control on the ticket screen', { timeout: 30_000 }, () => {
   it('says plainly when the browser has no Web Serial, and typed weights still price', async () => {
     const user = userEvent.setup();
     render(<TicketWorkbench initial={initial()} />);
@@ -66,13 +68,13 @@ describe('the scale control on the ticket screen', () => {
     render(<TicketWorkbench initial={initial()} simulatedScaleUrl={fake.url} />);
     pan({ value: '12.345', unit: 'g', layout: 'coded' });
     await user.click(screen.getByRole('button', { name: 'Connect simulated scale' }));
-    await waitFor(() => expect(reading()).toMatch(/12\.345 g\s*steady/));
+    await waitFor(() => expect(reading()).toMatch(/12\.345 g\s*steady/), soon);
 
     const line1 = within(screen.getByTestId('line-1'));
     await user.type(line1.getByLabelText('Mark'), '14K');
     await user.keyboard('{Alt>}w{/Alt}');
     expect(line1.getByLabelText('Gross weight')).toHaveProperty('value', '12.345');
-    expect(screen.getByTestId('scale-message').textContent).toBe('Line 1: gross weight 12.345 g, from the scale.');
+    expect(screen.getByTestId('scale-message').textContent).toBe('Line 1: gross weight 12.345 g from the scale.');
     const expected = priceQuote({ currency: 'USD', spot: { gold: '2400.0000' }, lines: [{ kind: 'weight', category: 'jewelry', mark: '14K', grossWeight: { value: '12.345', unit: 'g' } }] });
     expect(screen.getByTestId('total-payout').textContent).toBe(expected.totals.payout.formatted);
 
@@ -81,14 +83,14 @@ describe('the scale control on the ticket screen', () => {
     const line2 = within(screen.getByTestId('line-2'));
     await user.type(line2.getByLabelText('Mark'), 'sterling');
     pan({ value: '31.10', unit: 'dwt', layout: 'plain', motion: true });
-    await waitFor(() => expect(reading()).toMatch(/dwt\s*moving/));
+    await waitFor(() => expect(reading()).toMatch(/dwt\s*moving/), soon);
     await user.keyboard('{Alt>}w{/Alt}');
     expect(screen.getByRole('alert').textContent).toMatch(/Not taken: The scale is not steady yet/);
     expect(line2.getByLabelText('Gross weight')).toHaveProperty('value', '');
 
     // Settled in pennyweights: the line shows what the balance shows, and the button names the line.
     pan({ motion: false });
-    await waitFor(() => expect(reading()).toMatch(/31\.10 dwt\s*steady/));
+    await waitFor(() => expect(reading()).toMatch(/31\.10 dwt\s*steady/), soon);
     await user.click(screen.getByRole('button', { name: 'Take weight into line 2' }));
     expect(line2.getByLabelText('Gross weight')).toHaveProperty('value', '31.10');
     expect(line2.getByLabelText('Unit')).toHaveProperty('value', 'dwt');
@@ -96,20 +98,26 @@ describe('the scale control on the ticket screen', () => {
     expect(line1.getByLabelText('Gross weight')).toHaveProperty('value', '12.345');
   });
 
-  it('refuses overload and avoirdupois ounces, and a line priced by count', async () => {
+  it('refuses overload, avoirdupois ounces and an unreadable line, and a line priced by count', async () => {
     const user = userEvent.setup();
     render(<TicketWorkbench initial={initial()} simulatedScaleUrl={fake.url} />);
     pan({ layout: 'reply', load: 'overload' });
     await user.click(screen.getByRole('button', { name: 'Connect simulated scale' }));
-    await waitFor(() => expect(reading()).toMatch(/overload/));
+    await waitFor(() => expect(reading()).toMatch(/overload/), soon);
     await user.click(within(screen.getByTestId('line-1')).getByLabelText('Mark'));
     await user.keyboard('{Alt>}w{/Alt}');
     expect(screen.getByRole('alert').textContent).toMatch(/overloaded/);
 
     pan({ layout: 'coded', load: 'in-range', value: '0.500', unit: 'oz' });
-    await waitFor(() => expect(reading()).toMatch(/no usable weight/));
+    await waitFor(() => expect(reading()).toMatch(/no usable weight/), soon);
     await user.keyboard('{Alt>}w{/Alt}');
     expect(screen.getByRole('alert').textContent).toMatch(/avoirdupois unit never used for precious metal/);
+
+    pan({ raw: 'ST,GS,+   1,234 g' });
+    await waitFor(() => expect(reading()).toMatch(/unreadable line: the balance writes a decimal comma/), soon);
+    await user.keyboard('{Alt>}w{/Alt}');
+    expect(screen.getByRole('alert').textContent).toMatch(/cannot read what the scale sends/);
+    expect(within(screen.getByTestId('line-1')).getByLabelText('Gross weight')).toHaveProperty('value', '');
 
     pan({ value: '3.000', unit: 'g' });
     await user.click(screen.getByRole('button', { name: 'Add coins or bullion' }));

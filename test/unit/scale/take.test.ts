@@ -100,20 +100,22 @@ describe('placing a reading into a line', () => {
   const line = (grossUnit: WeightUnit, tareValue = '') => ({ grossUnit, tareValue });
 
   it('shows what the balance shows: the line takes the balance unit when it has no tare', () => {
-    expect(placeWeight(taken('ST,GS,+  12.345 g'), line('g'))).toEqual({ ok: true, fields: { grossValue: '12.345', grossUnit: 'g', tareValue: '' }, said: '12.345 g' });
+    expect(placeWeight(taken('ST,GS,+  12.345 g'), line('g'))).toEqual({ ok: true, fields: { grossValue: '12.345', grossUnit: 'g', tareValue: '' }, shown: '12.345 g', note: null });
     expect(placeWeight(taken('ST,GS,+   7.90 dwt'), line('g'))).toEqual({
       ok: true,
       fields: { grossValue: '7.90', grossUnit: 'dwt', tareValue: '' },
-      said: '7.90 dwt; the line now weighs in pennyweights',
+      shown: '7.90 dwt',
+      note: 'the line now weighs in pennyweights',
     });
-    expect(placeWeight(taken('+  2.50 ct'), line('dwt'))).toMatchObject({ ok: true, fields: { grossValue: '0.5', grossUnit: 'g' }, said: '2.50 ct (0.5 g); the line now weighs in grams' });
+    expect(placeWeight(taken('+  2.50 ct'), line('dwt'))).toMatchObject({ ok: true, fields: { grossValue: '0.5', grossUnit: 'g' }, shown: '2.50 ct (0.5 g)', note: 'the line now weighs in grams' });
   });
 
   it('rewrites a typed tare in the balance unit when that is exact', () => {
     expect(placeWeight(taken('ST,GS,+  20.000 g'), line('dwt', '1.5'))).toEqual({
       ok: true,
       fields: { grossValue: '20.000', grossUnit: 'g', tareValue: '2.33276076' },
-      said: '20.000 g; tare 1.5 dwt written as 2.33276076 g',
+      shown: '20.000 g',
+      note: 'the tare of 1.5 dwt is now written as 2.33276076 g',
     });
   });
 
@@ -121,7 +123,8 @@ describe('placing a reading into a line', () => {
     expect(placeWeight(taken('ST,GS,+   2.000 dwt'), line('g', '0.3'))).toEqual({
       ok: true,
       fields: { grossValue: '3.11034768', grossUnit: 'g', tareValue: '0.3' },
-      said: '2.000 dwt = 3.11034768 g',
+      shown: '2.000 dwt',
+      note: 'written as 3.11034768 g, the unit of the tare',
     });
   });
 

@@ -114,7 +114,7 @@ export function ScaleControl({ lines, onTake, disabled, simulatedScaleUrl = null
     const placed = placeWeight(checked.weight, target);
     if (!placed.ok) return setMessage({ tone: 'error', text: `Not taken: ${placed.reason}` });
     onTake(target.key, placed.fields);
-    setMessage({ tone: 'ok', text: `Line ${targetIndex}: gross weight ${placed.said}, from the scale.` });
+    setMessage({ tone: 'ok', text: `Line ${targetIndex}: gross weight ${placed.shown} from the scale${placed.note ? ` (${placed.note})` : ''}.` });
     if (section.current?.contains(document.activeElement)) {
       document.querySelector<HTMLElement>(`[data-line-key="${target.key}"] input[id$="-gross"]`)?.focus();
     }
@@ -144,8 +144,9 @@ export function ScaleControl({ lines, onTake, disabled, simulatedScaleUrl = null
     }
   }
 
+  // Sticks to the top of the window so the scale stays at hand on a long ticket.
   return (
-    <section ref={section} className="card py-3" aria-labelledby="scale-heading" data-testid="scale">
+    <section ref={section} className="card sticky top-0 z-10 py-3" aria-labelledby="scale-heading" data-testid="scale">
       <div className="flex flex-wrap items-center gap-x-4 gap-y-2">
         <h3 id="scale-heading" className="font-bold">
           Scale
@@ -159,7 +160,7 @@ export function ScaleControl({ lines, onTake, disabled, simulatedScaleUrl = null
               Take weight{target ? ` into line ${targetIndex}` : ''}
             </button>
             <span className="text-sm text-ink-600">
-              or <kbd className="rounded border px-1">Alt</kbd>+<kbd className="rounded border px-1">W</kbd> · {connection.label}
+              or <kbd className="rounded border px-1">Alt</kbd>+<kbd className="rounded border px-1">W</kbd> · connected: {connection.label}
             </span>
             <button type="button" className="btn-quiet" onClick={() => setConnection(null)}>
               Disconnect
@@ -234,8 +235,18 @@ function ReadingText({ reading }: { reading: ScaleReading | null }) {
       return <span className="font-sans text-sm font-semibold text-red-800">overload</span>;
     case 'underload':
       return <span className="font-sans text-sm font-semibold text-red-800">underload</span>;
+    case 'unreadable':
+      return (
+        <span className="font-sans text-sm font-semibold text-red-800" title={reading.reason}>
+          unreadable line: {reading.reason}
+        </span>
+      );
     default:
-      return <span className="font-sans text-sm font-semibold text-red-800">no usable weight</span>;
+      return (
+        <span className="font-sans text-sm font-semibold text-red-800" title={reading.reason}>
+          no usable weight
+        </span>
+      );
   }
 }
 
