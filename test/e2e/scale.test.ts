@@ -89,6 +89,27 @@ describe('weight from the scale, in real chromium', () => {
     await line3.getByLabel('Gross weight').fill('3.5');
     await expect.poll(() => page.getByTestId('line-3-figures').textContent()).toMatch(/pays \$/);
 
+    // Far down the ticket the scale bar stays in view, and a field reached with Tab is not hidden under it.
+    await page.evaluate(() => window.scrollTo(0, document.body.scrollHeight));
+    expect(await page.evaluate(() => window.scrollY)).toBeGreaterThan(500);
+    expect(Math.abs((await scale.boundingBox())!.y)).toBeLessThan(2);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/scale-bar-in-view.png` });
+    await line1.getByLabel('Gross weight').evaluate((el: HTMLElement) => el.focus());
+    const bar = (await scale.boundingBox())!;
+    const field = (await line1.getByLabel('Gross weight').boundingBox())!;
+    expect(bar.y).toBeGreaterThanOrEqual(-1);
+    expect(field.y).toBeGreaterThanOrEqual(bar.y + bar.height);
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('l0-gross');
+    // The scale follows the line being worked on (line 1 was rendered by the server, the others in the browser).
+    await expect.poll(() => scale.getByRole('button', { name: /^Take weight into line/ }).textContent()).toBe('Take weight into line 1');
+    await line1.getByLabel('Gross weight').fill('');
+    await pan({ value: '12.345', unit: 'g', layout: 'coded' });
+    await expect.poll(() => reading.textContent()).toMatch(/^12\.345 g\s*steady$/);
+    await page.keyboard.press('Alt+KeyW');
+    await expect.poll(() => line1.getByLabel('Gross weight').inputValue()).toBe('12.345');
+    expect(await message.textContent()).toBe('Line 1: gross weight 12.345 g from the scale.');
+    expect(await line2.getByLabel('Gross weight').inputValue()).toBe('101.20');
+
     // The server prices the same lines to the same figures.
     await page.getByRole('button', { name: 'Save lines' }).click();
     await expect.poll(() => page.getByRole('status').filter({ hasText: 'Saved' }).count()).toBe(1);
@@ -102,6 +123,7 @@ describe('weight from the scale, in real chromium', () => {
       { value: '3.5', unit: 'g', grams: '3.5' },
     ]);
     expect(await page.getByTestId('total-payout').textContent()).toBe(moneyOf(server.ticket.payoutMinor, 'USD').formatted);
+    await page.evaluate(() => window.scrollTo(0, 0));
     await page.screenshot({ path: `${SCREENSHOT_DIR}/scale-saved.png`, fullPage: true });
   });
 

@@ -96,6 +96,13 @@ describe('the scale control on the ticket screen', { timeout: 30_000 }, () => {
     expect(line2.getByLabelText('Unit')).toHaveProperty('value', 'dwt');
     expect(document.activeElement).toBe(line2.getByLabelText('Gross weight'));
     expect(line1.getByLabelText('Gross weight')).toHaveProperty('value', '12.345');
+
+    // Back in line 1: the scale follows the line being worked on, not the last one.
+    await user.click(line1.getByLabelText('Description'));
+    expect(screen.getByRole('button', { name: 'Take weight into line 1' })).toBeTruthy();
+    await user.keyboard('{Alt>}w{/Alt}');
+    expect(line1.getByLabelText('Gross weight')).toHaveProperty('value', '31.10');
+    expect(line1.getByLabelText('Unit')).toHaveProperty('value', 'dwt');
   });
 
   it('refuses overload, avoirdupois ounces and an unreadable line, and a line priced by count', async () => {

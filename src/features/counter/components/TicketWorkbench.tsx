@@ -186,7 +186,7 @@ export default function TicketWorkbench({ initial, simulatedScaleUrl = null }: P
         </div>
         {editable && <ScaleControl lines={lines} onTake={change} disabled={!!busy} simulatedScaleUrl={simulatedScaleUrl} />}
         {lines.map((line, i) => (
-          <div key={line.key} id={`wrap-${line.key}`} data-line-key={line.key}>
+          <div key={line.key} id={`wrap-${line.key}`} data-line-index={i}>
             <LineEditor
               index={i}
               line={line}

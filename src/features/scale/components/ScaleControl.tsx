@@ -59,9 +59,13 @@ export function ScaleControl({ lines, onTake, disabled, simulatedScaleUrl = null
     setSettings(loadSettings());
   }, []);
 
+  // Lines are found by position: a line's key can differ between the server's render and the browser's.
+  const linesNow = useRef(lines);
+  linesNow.current = lines;
   useEffect(() => {
     function onFocus(e: FocusEvent) {
-      const key = (e.target as Element | null)?.closest?.('[data-line-key]')?.getAttribute('data-line-key');
+      const at = (e.target as Element | null)?.closest?.('[data-line-index]')?.getAttribute('data-line-index');
+      const key = at == null ? undefined : linesNow.current[Number(at)]?.key;
       if (key) setTargetKey(key);
     }
     document.addEventListener('focusin', onFocus);
@@ -83,6 +87,13 @@ export function ScaleControl({ lines, onTake, disabled, simulatedScaleUrl = null
       void connection.close();
     };
   }, [connection]);
+
+  // The bar sticks to the top of the window; keep a focused field from scrolling in under it.
+  useEffect(() => {
+    const root = document.documentElement;
+    if (section.current) root.style.scrollPaddingTop = `${section.current.offsetHeight + 12}px`;
+  });
+  useEffect(() => () => void (document.documentElement.style.scrollPaddingTop = ''), []);
 
   const target = lines.find((l) => l.key === targetKey) ?? lines.at(-1);
   const targetIndex = target ? lines.indexOf(target) + 1 : 0;
@@ -116,7 +127,7 @@ export function ScaleControl({ lines, onTake, disabled, simulatedScaleUrl = null
     onTake(target.key, placed.fields);
     setMessage({ tone: 'ok', text: `Line ${targetIndex}: gross weight ${placed.shown} from the scale${placed.note ? ` (${placed.note})` : ''}.` });
     if (section.current?.contains(document.activeElement)) {
-      document.querySelector<HTMLElement>(`[data-line-key="${target.key}"] input[id$="-gross"]`)?.focus();
+      document.querySelector<HTMLElement>(`[data-line-index="${targetIndex - 1}"] input[id$="-gross"]`)?.focus();
     }
   }
 
