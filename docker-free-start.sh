@@ -33,7 +33,8 @@ if [[ "$MODE" == "test" ]]; then
   MAILDEV_WEB_PORT="${TEST_MAILDEV_WEB_PORT:-1090}"
   S3_PORT="${TEST_S3_PORT:-4579}"
   FAKE_PAYMENTS_PORT="${TEST_FAKE_PAYMENTS_PORT:-12121}"
-  FAKE_SCALE_PORT="${TEST_FAKE_SCALE_PORT:-12122}"
+  # The simulated scale sits beside the payments fake, so parallel runs with their own ports do not meet.
+  FAKE_SCALE_PORT="${TEST_FAKE_SCALE_PORT:-$((FAKE_PAYMENTS_PORT + 1))}"
   PG_DB="cupel_test"
   CLUSTER_NAME="pg-test"
 else
@@ -43,7 +44,7 @@ else
   MAILDEV_WEB_PORT="${MAILDEV_WEB_PORT:-1080}"
   S3_PORT="${S3_PORT:-4569}"
   FAKE_PAYMENTS_PORT="${FAKE_PAYMENTS_PORT:-12111}"
-  FAKE_SCALE_PORT="${FAKE_SCALE_PORT:-12112}"
+  FAKE_SCALE_PORT="${FAKE_SCALE_PORT:-$((FAKE_PAYMENTS_PORT + 1))}"
   PG_DB="${PG_DB:-cupel}"
   CLUSTER_NAME="pg"
 fi
