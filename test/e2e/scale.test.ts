@@ -65,7 +65,8 @@ describe('weight from the scale, in real chromium', () => {
     await page.keyboard.press('Alt+KeyW');
     await expect.poll(() => page.getByRole('alert').filter({ hasText: 'Not taken' }).textContent()).toMatch(/The scale is not steady yet \(the reading is still moving\)/);
     expect(await line2.getByLabel('Gross weight').inputValue()).toBe('');
-    await line2.scrollIntoViewIfNeeded();
+    // A full-page capture draws the sticky bar where the window is; start from the top.
+    await page.evaluate(() => window.scrollTo(0, 0));
     await page.screenshot({ path: `${SCREENSHOT_DIR}/scale-refused-moving.png`, fullPage: true });
 
     // Overload, in the reply layout, refused the same way.
