@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { paymentExceptions, payments, tickets } from '@/db/schema';
+import { recordAudit } from '@/features/audit/audit.server';
 import { voidTicket } from '@/features/counter/tickets.server';
 import { paymentProvider } from '@/features/settlement/provider.server';
 import { payElectronically, refreshPayoutAccount, startOnboarding } from '@/features/settlement/settlement.server';
@@ -33,7 +34,11 @@ describe('electronic payouts that need a manager, on the review page in real chr
     const late = await acceptedTicket(db, world);
     expect((await fault({ next: 'delay-webhook', count: 10, delayMs: 3000 })).status).toBe(200);
     await payElectronically(db, world.clerk, late.id);
-    await db.update(tickets).set({ state: 'voided', voidedAt: new Date(), voidedBy: world.manager.id, voidReason: 'voided by hand in the database' }).where(eq(tickets.id, late.id));
+    // A hand edit must carry its audit row: the database refuses a change to a record on file without one.
+    await db.transaction(async (tx) => {
+      await tx.update(tickets).set({ state: 'voided', voidedAt: new Date(), voidedBy: world.manager.id, voidReason: 'voided by hand in the database' }).where(eq(tickets.id, late.id));
+      await recordAudit(tx, { storeId: world.storeId, actorUserId: world.manager.id, action: 'ticket.void', entity: 'ticket', entityId: late.id, before: { state: 'accepted' }, after: { state: 'voided' } });
+    });
     await waitFor('the exception to be raised', async () => (await db.select().from(paymentExceptions).where(eq(paymentExceptions.ticketId, late.id))).length > 0);
 
     // A paid electronic ticket whose transfer was already taken back in the provider's own dashboard:
