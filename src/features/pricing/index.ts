@@ -44,7 +44,9 @@ export {
   markedFinenessOfKey,
   markCandidateByKey,
   MARK_CATALOGUE,
+  RENAMED_MARK_KEYS,
   type MarkReading,
+  type NeedsTestReason,
   type MarkCandidate,
   type MarkKind,
 } from './marks';
@@ -52,6 +54,9 @@ export { COIN_CATALOGUE, COIN_TYPES, FACE_VALUE_CLASSES, coinSpec, faceValueClas
 export {
   DEFAULT_RATES,
   RATE_CATEGORIES,
+  RATE_CATEGORY_LABELS,
+  SPLIT_RATE_CATEGORIES,
+  GOLD_JEWELRY_BANDS,
   LINE_CATEGORIES,
   resolveRateCategory,
   mergeRates,

@@ -21,11 +21,16 @@ const READINGS: Row[] = [
   ['375', 'solid', '375', '0.375'],
   ['750', 'solid', '750', '0.75'],
   ['916', 'solid', '916', '0.916'],
-  ['990', 'solid', '990', '0.99'],
+  // 990 is a fineness of gold, silver, platinum and palladium, and 800 of silver and (in some countries) gold (issue 8):
+  // read alone they need a test; with a metal symbol they read as that metal.
+  ['990', 'needs-test', undefined, undefined],
+  ['AU 990', 'solid', 'AU990', '0.99'],
+  ['AG 990', 'solid', 'AG990', '0.99'],
   ['925', 'solid', '925', '0.925'],
   ['0.925', 'solid', '925', '0.925'],
   ['S925', 'solid', '925', '0.925'],
-  ['800', 'solid', '800', '0.8'],
+  ['800', 'needs-test', undefined, undefined],
+  ['800 AG', 'solid', 'AG800', '0.8'],
   ['835', 'solid', '835', '0.835'],
   ['Sterling', 'solid', 'STERLING', '0.925'],
   ['STER.', 'solid', 'STERLING', '0.925'],

@@ -285,7 +285,8 @@ function MarkReadingText({ reading }: { reading: ReturnType<typeof parseMark> })
       return (
         <span className="font-semibold text-amber-800">
           {reading.label}
-          {reading.candidates.length > 0 && <> · could be {reading.candidates.map((c) => c.label).join(', ')}: test it or choose the metal</>}
+          {reading.reason === 'ambiguous-metal' && <> · could be {reading.candidates.map((c) => c.label).join(', ')}: test it or choose the metal</>}
+          {reading.reason !== 'ambiguous-metal' && reading.candidates.length > 0 && <> · reads as {reading.candidates.map((c) => c.label).join(', ')}: test it and enter the tested fineness</>}
         </span>
       );
   }
