@@ -159,6 +159,10 @@ function metalList(metals: Iterable<Metal>): string {
   return names.length <= 1 ? (names[0] ?? '') : `${names.slice(0, -1).join(', ')} or ${names[names.length - 1]}`;
 }
 
+function capitalised(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}
+
 /** Reads a purity mark as stamped or typed. Never throws; never guesses between metals. */
 export function parseMarkUncached(input: unknown): MarkReading {
   const raw = typeof input === 'string' ? input : input === undefined || input === null ? '' : String(input);
@@ -261,6 +265,7 @@ export function parseMarkUncached(input: unknown): MarkReading {
   const consumed = new Set<number>();
   const conflicts: string[] = [];
   const conflictCandidates: MarkCandidate[] = [];
+  const conflictLabels: string[] = [];
   tokens.forEach((token, i) => {
     if (!NUMBER_TOKEN.test(token)) return;
     consumed.add(i);
@@ -276,6 +281,7 @@ export function parseMarkUncached(input: unknown): MarkReading {
     const fitting = metals.filter((m) => named.has(m));
     if (fitting.length === 0) {
       conflicts.push(`The mark names ${metalList(named)}, but ${token} is a fineness of ${metalList(metals)}, not of ${metalList(named)}.`);
+      conflictLabels.push(`${capitalised(metalList(named))} named, but ${token} is a fineness of ${metalList(metals)}: needs a test`);
       conflictCandidates.push(...metals.map((m) => millesimalCandidate(token, m)));
       return;
     }
@@ -297,7 +303,9 @@ export function parseMarkUncached(input: unknown): MarkReading {
       for (const m of symbolMetals) {
         if (has(m)) continue;
         const other = groups.flat();
-        conflicts.push(`The mark names ${metalList([m])}, but ${describeCandidates(other)} is a mark of ${metalList(new Set(other.map((c) => c.metal)))}, not of ${metalList([m])}.`);
+        const otherMetals = metalList(new Set(other.map((c) => c.metal)));
+        conflicts.push(`The mark names ${metalList([m])}, but ${describeCandidates(other)} is a mark of ${otherMetals}, not of ${metalList([m])}.`);
+        conflictLabels.push(`${METAL_LABELS[m]} named, but the mark reads ${otherMetals}: needs a test`);
         conflictCandidates.push(...other);
       }
     }
@@ -309,7 +317,7 @@ export function parseMarkUncached(input: unknown): MarkReading {
   if (conflicts.length > 0) {
     notes.push(...conflicts.map((c) => `${c} Test it before pricing.`));
     const cs = dedupe([...conflictCandidates, ...groups.flat()]);
-    return finish(raw, normalized, notes, needsTest(cs, 'Metal named and fineness disagree: needs a test', 'metal-conflict'), named);
+    return finish(raw, normalized, notes, needsTest(cs, conflictLabels[0]!, 'metal-conflict'), named);
   }
 
   if (groups.length === 0) {

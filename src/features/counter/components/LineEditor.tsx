@@ -286,7 +286,8 @@ function MarkReadingText({ reading }: { reading: ReturnType<typeof parseMark> })
         <span className="font-semibold text-amber-800">
           {reading.label}
           {reading.reason === 'ambiguous-metal' && <> · could be {reading.candidates.map((c) => c.label).join(', ')}: test it or choose the metal</>}
-          {reading.reason !== 'ambiguous-metal' && reading.candidates.length > 0 && <> · reads as {reading.candidates.map((c) => c.label).join(', ')}: test it and enter the tested fineness</>}
+          {reading.reason === 'marks-disagree' && <> · {reading.candidates.map((c) => c.label).join(', ')}: test it and enter the tested fineness</>}
+          {reading.kind === 'needs-test' && reading.reason !== 'ambiguous-metal' && reading.reason !== 'marks-disagree' && <> · test it and enter the tested fineness</>}
         </span>
       );
   }
