@@ -12,7 +12,34 @@ import {
   type MarkCandidate,
 } from './mark-catalogue';
 import { METAL_LABELS, type Metal } from './metals';
+import {
+  MAX_MARK_LENGTH,
+  NO_PRECIOUS,
+  FILLED,
+  PLATED_SILVER,
+  PLATED_GOLD,
+  PLATED_ANY,
+  FRACTION,
+  KARAT_AFTER,
+  KARAT_BEFORE,
+  PLUMB,
+  PT_WORD,
+  PD_WORD,
+  STERLING_WORD,
+  COIN_WORD,
+  FINE_SILVER,
+  FINE_GOLD,
+  BRITANNIA_WORD,
+  VERMEIL_WORD,
+  NUMBER_TOKEN,
+  SILVER_HINTS,
+  GOLD_HINTS,
+  VOCABULARY,
+  expandTokens,
+  normaliseMark,
+} from './mark-text';
 
+export { normaliseMark } from './mark-text';
 export { MARK_CATALOGUE, MAX_KARAT, MIN_KARAT, RENAMED_MARK_KEYS, markCandidateByKey, type MarkCandidate } from './mark-catalogue';
 
 export type MarkKind = 'solid' | 'filled' | 'plated' | 'no-precious' | 'needs-test' | 'unknown';
@@ -47,68 +74,6 @@ export interface MarkReading {
   readonly notes: readonly string[];
   readonly filled?: FilledLayer;
 }
-
-const MAX_MARK_LENGTH = 200;
-
-/** Upper case, decimal finenesses to digits ("0.925", ".925" -> "925"; "999.9" -> "9999"), tokens spaced. */
-export function normaliseMark(input: string): string {
-  let s = input.length > MAX_MARK_LENGTH ? input.slice(0, MAX_MARK_LENGTH) : input;
-  s = s.normalize('NFKC').toUpperCase();
-  s = s.replace(/[\u2044\u2215]/g, '/');
-  s = s.replace(/(^|[^\d])0?[.,](\d{3,4})(?!\d)/g, '$1$2');
-  s = s.replace(/(^|[^\d])(\d{3})[.,](\d)(?!\d)/g, '$1$2$3');
-  s = s.replace(/([A-Z])\.(?=[A-Z])/g, '$1');
-  s = s.replace(/(\d)(?=[A-Z])/g, '$1 ').replace(/([A-Z])(?=\d)/g, '$1 ');
-  s = s.replace(/\s*\/\s*/g, '/');
-  s = s.replace(/[^A-Z0-9/]+/g, ' ').trim();
-  return s;
-}
-
-const KARAT_UNIT = '(?:KARATS?|CARATS?|KT|CT|KP|K)';
-const COMPOSITE = new RegExp(`^(${KARAT_UNIT.slice(3, -1)})(GF|RGP|GP|GE|HGE|HGP|EP|GEP)$`);
-
-function expandTokens(normalized: string): string[] {
-  const out: string[] = [];
-  for (const token of normalized.split(' ')) {
-    const m = COMPOSITE.exec(token);
-    if (m) out.push(m[1]!, m[2]!);
-    else if (token === 'SILVERPLATE' || token === 'SILVERPLATED') out.push('SILVER', 'PLATED');
-    else if (token === 'GOLDFILLED') out.push('GOLD', 'FILLED');
-    else if (token === 'NICKELSILVER') out.push('NICKEL', 'SILVER');
-    else if (token !== '') out.push(token);
-  }
-  return out;
-}
-
-const NO_PRECIOUS = /\b(?:NICKEL SILVER|GERMAN SILVER|ALPAC+A|NEUSILBER|STAINLESS|TITANIUM|TUNGSTEN|BRASS)\b/;
-const FILLED = /\b(?:GF|RGP|GOLD FILLED|GOLD FILL|ROLLED GOLD(?: PLATED?)?)\b/;
-const PLATED_SILVER = /\b(?:EPNS|EPBM|EPWM|EPC|EP|SILVER PLATED?|(?:QUADRUPLE|QUAD|TRIPLE|DOUBLE) PLATED?|STERLING PLATED?)\b/;
-const PLATED_GOLD = /\b(?:HGE|HGP|GEP|GP|GE|GOLD PLATED?|GOLD ELECTROPLATED?|HEAVY GOLD ELECTROPLATE)\b/;
-const PLATED_ANY = /\b(?:PLATED?|ELECTROPLATED?)\b/;
-const FRACTION = /\b(\d{1,3})\/(\d{1,4})\b/;
-const KARAT_AFTER = new RegExp(`\\b(\\d{1,2}) ${KARAT_UNIT}\\b`, 'g');
-const KARAT_BEFORE = /\bK (\d{1,2})\b/g;
-const PLUMB = /\b\d{1,2} KP\b/;
-const PT_WORD = /\b(?:PT|PLAT|PLATINUM|PLATINA)\b/;
-const PD_WORD = /\b(?:PD|PALL|PALLADIUM)\b/;
-const STERLING_WORD = /\b(?:STERLING|STERL|STER|STG)\b/;
-const COIN_WORD = /\bCOIN\b/;
-const FINE_SILVER = /\bFINE SILVER\b/;
-const FINE_GOLD = /\bFINE GOLD\b/;
-const BRITANNIA_WORD = /\bBRITANNIA\b/;
-const VERMEIL_WORD = /\bVERMEIL\b/;
-const NUMBER_TOKEN = /^\d{3,4}$/;
-
-const SILVER_HINTS = new Set(['AG', 'S', 'SILVER', 'PLATA', 'ARGENTO', 'ARGENT']);
-const GOLD_HINTS = new Set(['AU', 'G', 'GOLD', 'ORO']);
-
-const VOCABULARY = new Set([
-  'K', 'KT', 'CT', 'KP', 'KARAT', 'KARATS', 'CARAT', 'CARATS', 'GF', 'RGP', 'GP', 'GE', 'HGE', 'HGP', 'GEP', 'EP',
-  'EPNS', 'EPBM', 'EPWM', 'EPC', 'FILLED', 'FILL', 'ROLLED', 'PLATE', 'PLATED', 'ELECTROPLATE', 'ELECTROPLATED',
-  'HEAVY', 'QUADRUPLE', 'QUAD', 'TRIPLE', 'DOUBLE', 'PT', 'PLAT', 'PLATINUM', 'PLATINA', 'PD', 'PALL', 'PALLADIUM',
-  'STERLING', 'STERL', 'STER', 'STG', 'COIN', 'FINE', 'BRITANNIA', 'VERMEIL', 'SOLID', 'PURE',
-  ...SILVER_HINTS, ...GOLD_HINTS,
-]);
 
 type Draft = Omit<MarkReading, 'input' | 'normalized' | 'notes' | 'candidates' | 'namedMetals'> & {
   candidates?: readonly MarkCandidate[];

@@ -223,10 +223,10 @@ function needsTestMessage(reading: MarkReading, metal: Metal | undefined): strin
       : `${reading.normalized} is a fineness of ${list}: choose the metal, or test it.`;
   }
   if (reading.reason === 'metal-conflict') {
-    const said = reading.notes.find((n) => n.startsWith('The mark names') || n.startsWith('Marks of more than one metal'));
+    const said = reading.notes.find((n) => n.startsWith('The mark names') || n.startsWith('Marks of more than one metal') || n.startsWith('Could be'));
     return said ?? `${reading.label}. Test it before pricing.`;
   }
-  if (reading.reason === 'unqualified-gold') return 'Marked "gold" with no karat: it claims 24 karat (16 CFR 23.4). Test it before paying as 24K.';
+  if (reading.reason === 'unqualified-gold') return 'Marked "gold" with no karat: the word alone claims 24 karat (fine) gold. Test it before paying as 24K.';
   return reading.kind === 'unknown' ? `${reading.label}. Enter a tested fineness and its metal.` : `${reading.label}. Enter a tested fineness.`;
 }
 

@@ -88,7 +88,8 @@ function withNoise(word: string, value: string) {
 
 const wordOf = (metal: Metal) => fc.constantFrom(...METAL_WORDS[metal]);
 
-describe('mark corpus: a mark naming metal X is never priced as metal Y', () => {
+// Thousands of quotes per property: give them room on a loaded 2-core machine.
+describe('mark corpus: a mark naming metal X is never priced as metal Y', { timeout: 60_000 }, () => {
   it('the engine lists exactly the metals of every number written out above', () => {
     const fromEngine: Record<string, Metal[]> = {};
     for (const c of MARK_CATALOGUE) {
