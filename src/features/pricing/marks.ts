@@ -87,11 +87,12 @@ function finish(input: string, normalized: string, notes: string[], draft: Draft
     normalized,
     ...draft,
     candidates: Object.freeze([...(draft.candidates ?? [])]),
-    namedMetals: Object.freeze(METAL_ORDER.filter((m) => named.has(m))),
+    namedMetals: named.size === 0 ? NO_METAL_LIST : Object.freeze(METAL_ORDER.filter((m) => named.has(m))),
     notes: Object.freeze(notes),
   });
 }
 const NO_METALS: ReadonlySet<Metal> = new Set();
+const NO_METAL_LIST: readonly Metal[] = Object.freeze([]);
 
 function solidFrom(c: MarkCandidate): Draft {
   return { kind: 'solid', key: c.key, metal: c.metal, fineness: c.fineness, finenessExact: c.finenessExact, label: c.label, candidates: [c] };
@@ -255,14 +256,18 @@ export function parseMarkUncached(input: unknown): MarkReading {
 
   groups.push(...wordGroups);
   if (conflicts.length === 0) {
-    const has = (m: Metal) => groups.some((g) => g.some((c) => c.metal === m));
+    const inGroups = new Set<Metal>();
+    for (const g of groups) for (const c of g) inGroups.add(c.metal);
+    const has = (m: Metal) => inGroups.has(m);
     if (symbolMetals.has('platinum') && !has('platinum')) {
       notes.push('Unqualified "platinum" is taken at 950 (FTC Jewelry Guides, 16 CFR 23.7).');
       groups.push([WORD.platinum]);
+      inGroups.add('platinum');
     }
     if (symbolMetals.has('palladium') && !has('palladium')) {
       notes.push('Unqualified "palladium" is taken at 950 (FTC Jewelry Guides, 16 CFR 23.7).');
       groups.push([WORD.palladium]);
+      inGroups.add('palladium');
     }
     if (groups.length > 0) {
       for (const m of symbolMetals) {
