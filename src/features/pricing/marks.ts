@@ -208,6 +208,8 @@ export function parseMarkUncached(input: unknown): MarkReading {
   if (tokens.some((t) => SILVER_HINTS.has(t))) symbolMetals.add('silver');
   if (PT_WORD.test(text)) symbolMetals.add('platinum');
   if (PD_WORD.test(text)) symbolMetals.add('palladium');
+  // "Gold vermeil" names the coat of gold-coated sterling, not the article's metal.
+  if (vermeil) symbolMetals.delete('gold');
 
   // Each group is one mark read on the article; a group with several candidates is ambiguous.
   const groups: MarkCandidate[][] = [];

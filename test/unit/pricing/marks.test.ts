@@ -33,6 +33,8 @@ const READINGS: Row[] = [
   ['800 AG', 'solid', 'AG800', '0.8'],
   ['835', 'solid', '835', '0.835'],
   ['Sterling', 'solid', 'STERLING', '0.925'],
+  ['gold vermeil 925', 'solid', '925', '0.925'],
+  ['925 gold', 'needs-test', undefined, undefined],
   ['STER.', 'solid', 'STERLING', '0.925'],
   ['stg', 'solid', 'STERLING', '0.925'],
   ['sterling silver', 'solid', 'STERLING', '0.925'],
