@@ -79,20 +79,25 @@ type Draft = Omit<MarkReading, 'input' | 'normalized' | 'notes' | 'candidates' |
   candidates?: readonly MarkCandidate[];
 };
 
+const BIT: Readonly<Record<Metal, number>> = { gold: 1, silver: 2, platinum: 4, palladium: 8 };
 const METAL_ORDER: readonly Metal[] = ['gold', 'silver', 'platinum', 'palladium'];
+/** The frozen list of metals of each mask, in METAL_ORDER: one array per mask, shared by every reading. */
+const METALS_OF_MASK: readonly (readonly Metal[])[] = Array.from({ length: 16 }, (_, mask) => Object.freeze(METAL_ORDER.filter((m) => (mask & BIT[m]) !== 0)));
 
-function finish(input: string, normalized: string, notes: string[], draft: Draft, named: ReadonlySet<Metal> = NO_METALS): MarkReading {
+function metalsOf(mask: number): readonly Metal[] {
+  return METALS_OF_MASK[mask]!;
+}
+
+function finish(input: string, normalized: string, notes: string[], draft: Draft, namedMask = 0): MarkReading {
   return Object.freeze({
     input,
     normalized,
     ...draft,
     candidates: Object.freeze([...(draft.candidates ?? [])]),
-    namedMetals: named.size === 0 ? NO_METAL_LIST : Object.freeze(METAL_ORDER.filter((m) => named.has(m))),
+    namedMetals: metalsOf(namedMask),
     notes: Object.freeze(notes),
   });
 }
-const NO_METALS: ReadonlySet<Metal> = new Set();
-const NO_METAL_LIST: readonly Metal[] = Object.freeze([]);
 
 function solidFrom(c: MarkCandidate): Draft {
   return { kind: 'solid', key: c.key, metal: c.metal, fineness: c.fineness, finenessExact: c.finenessExact, label: c.label, candidates: [c] };
@@ -152,7 +157,6 @@ export function parseMarkUncached(input: unknown): MarkReading {
     const type = isRolledPlate ? 'RGP' : 'GF';
     const fraction = FRACTION.exec(text);
     const karat = karats[0];
-    const gold: ReadonlySet<Metal> = new Set(['gold']);
     if (isRolledPlate) notes.push('Rolled gold plate: a bonded karat-gold layer, usually thinner than gold-filled; the fraction states its share of the weight.');
     if (!fraction || karat === undefined) {
       notes.push(
@@ -160,13 +164,13 @@ export function parseMarkUncached(input: unknown): MarkReading {
           ? 'Gold-filled mark without its fraction: the share of gold in the weight is unknown. Test, or buy on an agreed fraction.'
           : 'Gold-filled mark without the karat of its layer: test the layer.',
       );
-      return finish(raw, normalized, notes, needsTest([], `${type === 'GF' ? 'Gold-filled' : 'Rolled gold plate'}, content unknown`, 'fineness-unknown'), gold);
+      return finish(raw, normalized, notes, needsTest([], `${type === 'GF' ? 'Gold-filled' : 'Rolled gold plate'}, content unknown`, 'fineness-unknown'), BIT.gold);
     }
     const num = Number(fraction[1]);
     const den = Number(fraction[2]);
     if (num < 1 || den < 1 || num > den) {
       notes.push(`${num}/${den} is not a share of the weight.`);
-      return finish(raw, normalized, notes, needsTest([], 'Gold-filled, fraction unreadable', 'fineness-unknown'), gold);
+      return finish(raw, normalized, notes, needsTest([], 'Gold-filled, fraction unreadable', 'fineness-unknown'), BIT.gold);
     }
     const finenessExact = `${num * karat}/${den * 24}`;
     const key = `${num}/${den} ${karat}K ${type}`;
@@ -185,7 +189,7 @@ export function parseMarkUncached(input: unknown): MarkReading {
         candidates: [c],
         filled: { layerFraction: `${num}/${den}`, layerKarat: karat, layerFinenessExact: `${karat}/24` },
       },
-      gold,
+      BIT.gold,
     );
   }
 
@@ -203,13 +207,16 @@ export function parseMarkUncached(input: unknown): MarkReading {
   }
 
   // Metals named by a bare word or symbol (AG, SILVER, AU, GOLD, PT, PD...): each must be met by a mark of that metal.
-  const symbolMetals = new Set<Metal>();
-  if (tokens.some((t) => GOLD_HINTS.has(t))) symbolMetals.add('gold');
-  if (tokens.some((t) => SILVER_HINTS.has(t))) symbolMetals.add('silver');
-  if (PT_WORD.test(text)) symbolMetals.add('platinum');
-  if (PD_WORD.test(text)) symbolMetals.add('palladium');
+  // Sets of metals are bit masks here: this runs for every mark typed at the counter.
+  let symbolMask = 0;
+  for (const t of tokens) {
+    if (GOLD_HINTS.has(t)) symbolMask |= BIT.gold;
+    else if (SILVER_HINTS.has(t)) symbolMask |= BIT.silver;
+  }
+  if (PT_WORD.test(text)) symbolMask |= BIT.platinum;
+  if (PD_WORD.test(text)) symbolMask |= BIT.palladium;
   // "Gold vermeil" names the coat of gold-coated sterling, not the article's metal.
-  if (vermeil) symbolMetals.delete('gold');
+  if (vermeil) symbolMask &= ~BIT.gold;
 
   // Each group is one mark read on the article; a group with several candidates is ambiguous.
   const groups: MarkCandidate[][] = [];
@@ -227,59 +234,58 @@ export function parseMarkUncached(input: unknown): MarkReading {
     wordGroups.push([WORD.vermeil]);
   }
   // Every metal the mark names: by word or symbol, by a karat (gold) or by a silver word (sterling, coin...).
-  const named = new Set(symbolMetals);
-  for (const g of [...groups, ...wordGroups]) named.add(g[0]!.metal);
+  let namedMask = symbolMask;
+  if (groups.length > 0) namedMask |= BIT.gold;
+  for (const g of wordGroups) namedMask |= BIT[g[0]!.metal];
 
   const consumed = new Set<number>();
   const conflicts: string[] = [];
   const conflictCandidates: MarkCandidate[] = [];
   const conflictLabels: string[] = [];
-  tokens.forEach((token, i) => {
-    if (!NUMBER_TOKEN.test(token)) return;
+  for (let i = 0; i < tokens.length; i++) {
+    const token = tokens[i]!;
+    if (!NUMBER_TOKEN.test(token)) continue;
     consumed.add(i);
     const metals = MILLESIMAL_METALS[token];
     if (!metals) {
       notes.push(`The number ${token} is not a fineness Cupel knows.`);
-      return;
+      continue;
     }
-    if (named.size === 0) {
-      groups.push(metals.map((m) => millesimalCandidate(token, m)));
-      return;
+    const group: MarkCandidate[] = [];
+    for (const m of metals) if (namedMask === 0 || (namedMask & BIT[m]) !== 0) group.push(millesimalCandidate(token, m));
+    if (group.length > 0) {
+      groups.push(group);
+      continue;
     }
-    const fitting = metals.filter((m) => named.has(m));
-    if (fitting.length === 0) {
-      conflicts.push(`The mark names ${metalList(named)}, but ${token} is a fineness of ${metalList(metals)}, not of ${metalList(named)}.`);
-      conflictLabels.push(`${capitalised(metalList(named))} named, but ${token} is a fineness of ${metalList(metals)}: needs a test`);
-      conflictCandidates.push(...metals.map((m) => millesimalCandidate(token, m)));
-      return;
-    }
-    groups.push(fitting.map((m) => millesimalCandidate(token, m)));
-  });
+    const named = metalsOf(namedMask);
+    conflicts.push(`The mark names ${metalList(named)}, but ${token} is a fineness of ${metalList(metals)}, not of ${metalList(named)}.`);
+    conflictLabels.push(`${capitalised(metalList(named))} named, but ${token} is a fineness of ${metalList(metals)}: needs a test`);
+    for (const m of metals) conflictCandidates.push(millesimalCandidate(token, m));
+  }
 
   groups.push(...wordGroups);
   if (conflicts.length === 0) {
-    const inGroups = new Set<Metal>();
-    for (const g of groups) for (const c of g) inGroups.add(c.metal);
-    const has = (m: Metal) => inGroups.has(m);
-    if (symbolMetals.has('platinum') && !has('platinum')) {
+    let groupsMask = 0;
+    for (const g of groups) for (const c of g) groupsMask |= BIT[c.metal];
+    if ((symbolMask & BIT.platinum) !== 0 && (groupsMask & BIT.platinum) === 0) {
       notes.push('Unqualified "platinum" is taken at 950 (FTC Jewelry Guides, 16 CFR 23.7).');
       groups.push([WORD.platinum]);
-      inGroups.add('platinum');
+      groupsMask |= BIT.platinum;
     }
-    if (symbolMetals.has('palladium') && !has('palladium')) {
+    if ((symbolMask & BIT.palladium) !== 0 && (groupsMask & BIT.palladium) === 0) {
       notes.push('Unqualified "palladium" is taken at 950 (FTC Jewelry Guides, 16 CFR 23.7).');
       groups.push([WORD.palladium]);
-      inGroups.add('palladium');
+      groupsMask |= BIT.palladium;
     }
-    if (groups.length > 0) {
-      for (const m of symbolMetals) {
-        if (has(m)) continue;
-        const other = groups.flat();
-        const otherMetals = metalList(new Set(other.map((c) => c.metal)));
+    const unmet = symbolMask & ~groupsMask;
+    if (groups.length > 0 && unmet !== 0) {
+      const other = groups.flat();
+      const otherMetals = metalList(metalsOf(groupsMask));
+      for (const m of metalsOf(unmet)) {
         conflicts.push(`The mark names ${metalList([m])}, but ${describeCandidates(other)} is a mark of ${otherMetals}, not of ${metalList([m])}.`);
         conflictLabels.push(`${METAL_LABELS[m]} named, but the mark reads ${otherMetals}: needs a test`);
-        conflictCandidates.push(...other);
       }
+      conflictCandidates.push(...other);
     }
   }
 
@@ -289,25 +295,25 @@ export function parseMarkUncached(input: unknown): MarkReading {
   if (conflicts.length > 0) {
     notes.push(...conflicts.map((c) => `${c} Test it before pricing.`));
     const cs = dedupe([...conflictCandidates, ...groups.flat()]);
-    return finish(raw, normalized, notes, needsTest(cs, conflictLabels[0]!, 'metal-conflict'), named);
+    return finish(raw, normalized, notes, needsTest(cs, conflictLabels[0]!, 'metal-conflict'), namedMask);
   }
 
   if (groups.length === 0) {
-    if (symbolMetals.size > 1) {
-      notes.push(`The mark names ${metalList(symbolMetals)} with no fineness. Test it before pricing.`);
-      return finish(raw, normalized, notes, needsTest([], 'Metals named without a fineness: needs a test', 'metal-conflict'), named);
+    if (metalsOf(symbolMask).length > 1) {
+      notes.push(`The mark names ${metalList(metalsOf(symbolMask))} with no fineness. Test it before pricing.`);
+      return finish(raw, normalized, notes, needsTest([], 'Metals named without a fineness: needs a test', 'metal-conflict'), namedMask);
     }
-    if (symbolMetals.has('gold')) {
+    if ((symbolMask & BIT.gold) !== 0) {
       notes.push(
         'Unqualified "gold" may describe only fine (24 karat) gold throughout (FTC Jewelry Guides, 16 CFR 23.4, from memory), so the mark claims 24K. ' +
           'Items stamped "gold" alone are often of a lower karat or plated (common practice): test it before paying as 24K.',
       );
-      return finish(raw, normalized, notes, needsTest([karatCandidate(24, false)], 'Gold with no karat: claims 24K, needs a test', 'unqualified-gold'), named);
+      return finish(raw, normalized, notes, needsTest([karatCandidate(24, false)], 'Gold with no karat: claims 24K, needs a test', 'unqualified-gold'), namedMask);
     }
-    if (symbolMetals.has('silver')) {
+    if ((symbolMask & BIT.silver) !== 0) {
       notes.push('"Silver" without a fineness is not a purity mark (16 CFR 23.5 asks for a fineness beside the word). Test it.');
       const cs = MARK_CATALOGUE.filter((c) => c.metal === 'silver' && /^\D*\d+$/.test(c.key) && !c.key.endsWith('KP'));
-      return finish(raw, normalized, notes, needsTest(cs, 'Silver, fineness unknown: needs a test', 'fineness-unknown'), named);
+      return finish(raw, normalized, notes, needsTest(cs, 'Silver, fineness unknown: needs a test', 'fineness-unknown'), namedMask);
     }
     return finish(raw, normalized, notes, { kind: 'unknown', label: 'Mark not recognised: needs a test' });
   }
@@ -316,18 +322,18 @@ export function parseMarkUncached(input: unknown): MarkReading {
   if (ambiguous) {
     const unambiguous = groups.filter((g) => g.length === 1).map((g) => g[0]!);
     // Only numbers narrow numbers ("835 833" is silver); with a metal named, a group still ambiguous names two metals.
-    const narrowed = unambiguous.length > 0 && named.size === 0 ? ambiguous.filter((c) => unambiguous.every((u) => u.metal === c.metal)) : [];
+    const narrowed = unambiguous.length > 0 && namedMask === 0 ? ambiguous.filter((c) => unambiguous.every((u) => u.metal === c.metal)) : [];
     if (narrowed.length === 1 && unambiguous.every((u) => u.metal === narrowed[0]!.metal)) {
       groups.splice(groups.indexOf(ambiguous), 1, [narrowed[0]!]);
     } else {
       const union = dedupe(groups.flat());
-      const onlyNumbers = named.size === 0;
+      const onlyNumbers = namedMask === 0;
       notes.push(
         onlyNumbers
           ? `Could be ${describeCandidates(union)}: the number is a fineness of ${metalList(new Set(union.map((c) => c.metal)))}. Test it, or name the metal.`
           : `Could be ${describeCandidates(union)}; test before pricing.`,
       );
-      return finish(raw, normalized, notes, needsTest(union, 'Ambiguous mark: needs a test', onlyNumbers ? 'ambiguous-metal' : 'metal-conflict'), named);
+      return finish(raw, normalized, notes, needsTest(union, 'Ambiguous mark: needs a test', onlyNumbers ? 'ambiguous-metal' : 'metal-conflict'), namedMask);
     }
   }
 
@@ -335,9 +341,9 @@ export function parseMarkUncached(input: unknown): MarkReading {
   const metals = new Set(singles.map((c) => c.metal));
   if (metals.size > 1) {
     notes.push(`Marks of more than one metal: ${describeCandidates(singles)}. Test before pricing.`);
-    return finish(raw, normalized, notes, needsTest(singles, 'Marks of different metals: needs a test', 'metal-conflict'), named);
+    return finish(raw, normalized, notes, needsTest(singles, 'Marks of different metals: needs a test', 'metal-conflict'), namedMask);
   }
-  if (singles.length === 1) return finish(raw, normalized, notes, solidFrom(singles[0]!), named);
+  if (singles.length === 1) return finish(raw, normalized, notes, solidFrom(singles[0]!), namedMask);
 
   const values = singles.map((c) => ratioValue(parseRatio(c.finenessExact)));
   let lowest = 0;
@@ -347,10 +353,10 @@ export function parseMarkUncached(input: unknown): MarkReading {
   const highest = values.reduce((a, b) => (a.gt(b) ? a : b));
   if (highest.minus(values[lowest]!).gt('0.005')) {
     notes.push(`Marks disagree: ${describeCandidates(singles)}. Test before pricing.`);
-    return finish(raw, normalized, notes, needsTest(singles, 'Marks disagree: needs a test', 'marks-disagree'), named);
+    return finish(raw, normalized, notes, needsTest(singles, 'Marks disagree: needs a test', 'marks-disagree'), namedMask);
   }
   notes.push(`Also marked: ${singles.filter((_, i) => i !== lowest).map((c) => c.key).join(', ')}; the lower fineness is used.`);
-  return finish(raw, normalized, notes, solidFrom(singles[lowest]!), named);
+  return finish(raw, normalized, notes, solidFrom(singles[lowest]!), namedMask);
 }
 
 function dedupe(cs: readonly MarkCandidate[]): MarkCandidate[] {
