@@ -21,7 +21,7 @@ const READINGS: Row[] = [
   ['375', 'solid', '375', '0.375'],
   ['750', 'solid', '750', '0.75'],
   ['916', 'solid', '916', '0.916'],
-  // 990 is a fineness of gold, silver, platinum and palladium, and 800 of silver and (in some countries) gold (issue 8):
+  // 990 is a fineness of gold, silver, platinum and palladium, and 800 of silver and (in some countries) gold:
   // read alone they need a test; with a metal symbol they read as that metal.
   ['990', 'needs-test', undefined, undefined],
   ['AU 990', 'solid', 'AU990', '0.99'],

@@ -94,7 +94,7 @@ describe('weight lines', () => {
     expect(cat('583')).toBe('gold-jewelry-14k-to-17k');
     expect(cat('585')).toBe('gold-jewelry-14k-to-17k');
     expect(cat('750')).toBe('gold-jewelry-18k-to-21k');
-    // Issue 8: 22K and 24K have bands of their own (they shared the 18K-and-above band).
+    // 22K and 24K have bands of their own (they shared the 18K-and-above band).
     expect(cat('22K')).toBe('gold-jewelry-22k-to-23k');
     expect(cat('24K')).toBe('gold-jewelry-24k');
   });
@@ -255,7 +255,7 @@ describe('validation', () => {
   });
 
   it('holds for a test a mark of another metal than the line states, and refuses a line with neither mark nor fineness', () => {
-    // Issue 8: a line whose metal disagrees with its mark is needs-test with the mark's candidates, never priced (it was a 422).
+    // A line whose metal disagrees with its mark is needs-test with the mark's candidates, never priced (it was a 422).
     const held = priceQuote(quote([weightLine({ mark: '14K', metal: 'silver' })])).lines[0]!;
     expect(held.status).toBe('needs-test');
     expect(held.status === 'needs-test' && held.message).toMatch(/14 karat gold .* but the line says silver/);
