@@ -1,11 +1,14 @@
 /**
- * Cupel's background worker: sends the mail outbox every few seconds and asks the payment provider
- * about electronic payouts that have been pending too long. Started by docker-free-start.sh.
+ * Cupel's background worker, started by docker-free-start.sh. Every few seconds it sends the mail
+ * outbox, applies provider events stored in the inbox but not applied (a crash, or a failure now due
+ * again), and sends electronic payouts and reversals that an earlier call left pending (same keys).
+ * Less often it asks the provider about payouts pending too long.
  */
 import { createDb } from '../src/db/client';
 import { receiptAttachments } from '../src/features/mail/attachments.server';
 import { deliverDueMail, smtpTransport } from '../src/features/mail/outbox.server';
-import { reconcilePendingPayments } from '../src/features/settlement/settlement.server';
+import { applyDueEvents } from '../src/features/payouts/inbox.server';
+import { reconcilePendingPayments, retryDueSends } from '../src/features/payouts/sending.server';
 
 const url = process.env.DATABASE_URL;
 if (!url) throw new Error('DATABASE_URL is not set');
@@ -22,6 +25,10 @@ async function tick() {
   try {
     const { sent, failed } = await deliverDueMail(db, transport, receiptAttachments(db));
     if (sent || failed) console.log(`outbox: ${sent} sent, ${failed} failed`);
+    const events = await applyDueEvents(db);
+    if (events.length) console.log('inbox:', JSON.stringify(events));
+    const sends = await retryDueSends(db);
+    if (sends.length) console.log('payouts:', JSON.stringify(sends));
     if (Date.now() - lastReconcile >= reconcileEveryMs) {
       lastReconcile = Date.now();
       const outcomes = await reconcilePendingPayments(db, { olderThanMs: reconcileAfterMs });

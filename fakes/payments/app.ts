@@ -53,15 +53,15 @@ export interface PaymentsFakeOptions {
   log?: (line: string) => void;
 }
 
-export type FaultKind = '500' | 'timeout' | 'decline-payout' | 'delay-webhook' | 'repeat-webhook';
+export type FaultKind = '500' | '409' | '429' | 'slow' | 'timeout' | 'decline-payout' | 'delay-webhook' | 'repeat-webhook';
 
 export interface FaultInput {
   next: FaultKind;
   count?: number;
   delayMs?: number;
-  /** Only requests whose path starts with this ("/v1/payouts"); for 500 and timeout. */
+  /** Only requests whose path starts with this ("/v1/payouts"); for 500, 409, 429, slow and timeout. */
   path?: string;
-  /** Only requests with this method; for 500 and timeout. */
+  /** Only requests with this method; for 500, 409, 429, slow and timeout. */
   method?: string;
   /** For timeout: carry the request out before dropping the answer (default true). */
   process?: boolean;
@@ -397,11 +397,12 @@ export async function createPaymentsFake(options: PaymentsFakeOptions = {}): Pro
 
   // -- faults --
   const addFault = (input: FaultInput): Fault => {
-    const kinds: FaultKind[] = ['500', 'timeout', 'decline-payout', 'delay-webhook', 'repeat-webhook'];
+    const kinds: FaultKind[] = ['500', '409', '429', 'slow', 'timeout', 'decline-payout', 'delay-webhook', 'repeat-webhook'];
     if (!kinds.includes(input.next)) throw new Error(`"next" must be one of ${kinds.join(', ')}`);
     const count = input.count ?? 1;
     if (!Number.isInteger(count) || count < 1 || count > 1000) throw new Error('"count" must be a whole number from 1 to 1000');
-    const fallbackDelay = input.next === 'timeout' ? DEFAULT_TIMEOUT_FAULT_MS : input.next === 'delay-webhook' ? DEFAULT_WEBHOOK_DELAY_MS : 100;
+    const fallbackDelay =
+      input.next === 'timeout' ? DEFAULT_TIMEOUT_FAULT_MS : input.next === 'delay-webhook' ? DEFAULT_WEBHOOK_DELAY_MS : input.next === 'slow' ? 2_000 : 100;
     const delayMs = input.delayMs ?? fallbackDelay;
     if (!Number.isInteger(delayMs) || delayMs < 0 || delayMs > MAX_FAULT_DELAY_MS) throw new Error(`"delayMs" must be a whole number from 0 to ${MAX_FAULT_DELAY_MS}`);
     const fault: Fault = {
@@ -743,6 +744,44 @@ export async function createPaymentsFake(options: PaymentsFakeOptions = {}): Pro
     return { status: 200, body: transfer };
   };
 
+  /**
+   * Takes a transfer back from the connected account to the platform. As with the provider for
+   * accounts whose losses the platform carries, the connected balance may go below zero when the
+   * money was already paid out; the provider then recovers it from the account (from memory).
+   */
+  const createReversal = (ctx: ApiContext, transferId: string): ApiResult => {
+    const p = ctx.params;
+    if (ctx.account) throw invalid('Transfer reversals are made by the platform: send this request without the Stripe-Account header.', undefined, 'platform_account_required');
+    allowOnly(p, ['amount', 'metadata', 'description', 'refund_application_fee', 'expand']);
+    const transfer = state.transfers[transferId];
+    if (!transfer) throw missing('transfer', transferId);
+    const left = transfer.amount - transfer.amount_reversed;
+    const amount = p.amount === undefined ? left : readAmount(p);
+    if (amount > left) {
+      throw businessError(`Transfer ${transferId} has ${left} ${transfer.currency} left to reverse; ${amount} requested.`, 'transfer_reversal_exceeds_transfer', 'amount');
+    }
+    const target = state.accounts[transfer.destination as string];
+    if (target) target.balance[transfer.currency] = (target.balance[transfer.currency] ?? 0) - amount;
+    state.platform_balance[transfer.currency] = (state.platform_balance[transfer.currency] ?? 0) + amount;
+    const reversal: Stripe.TransferReversal = {
+      id: newId('trr'),
+      object: 'transfer_reversal',
+      amount,
+      balance_transaction: newId('txn'),
+      created: nowS(),
+      currency: transfer.currency,
+      destination_payment_refund: newId('pyr'),
+      metadata: applyMetadata({}, p.metadata),
+      source_refund: null,
+      transfer: transfer.id,
+    };
+    transfer.amount_reversed += amount;
+    transfer.reversed = transfer.amount_reversed >= transfer.amount;
+    transfer.reversals.data.unshift(reversal);
+    emit('transfer.reversed', transfer, { ctx, previous: { amount_reversed: transfer.amount_reversed - amount } });
+    return { status: 200, body: reversal };
+  };
+
   const createPayout = (ctx: ApiContext): ApiResult => {
     const p = ctx.params;
     allowOnly(p, ['amount', 'currency', 'method', 'destination', 'metadata', 'description', 'statement_descriptor', 'source_type', 'expand']);
@@ -863,6 +902,16 @@ export async function createPaymentsFake(options: PaymentsFakeOptions = {}): Pro
         const transfer = state.transfers[id];
         if (!transfer) throw missing('transfer', id);
         return { status: 200, body: transfer };
+      },
+    },
+    { method: 'POST', pattern: /^\/v1\/transfers\/([^/]+)\/reversals$/, handle: createReversal },
+    {
+      method: 'GET',
+      pattern: /^\/v1\/transfers\/([^/]+)\/reversals$/,
+      handle: (ctx, id) => {
+        const transfer = state.transfers[id];
+        if (!transfer) throw missing('transfer', id);
+        return { status: 200, body: listOf(transfer.reversals.data, ctx.params, `/v1/transfers/${id}/reversals`) };
       },
     },
     { method: 'POST', pattern: /^\/v1\/payouts$/, handle: createPayout },
@@ -1076,6 +1125,22 @@ export async function createPaymentsFake(options: PaymentsFakeOptions = {}): Pro
     changed();
   };
 
+  // Keys of requests being carried out right now: another request with the same key meanwhile
+  // answers 409 idempotency_key_in_use, as the provider does, and is not remembered.
+  const inFlight = new Set<string>();
+  const keyInUse = (key: string) =>
+    new ApiError(409, {
+      type: 'idempotency_error',
+      code: 'idempotency_key_in_use',
+      message: `There is currently another in-progress request using this idempotency key (that probably means you submitted twice, and the other request is still going through): ${key}. Please try again later.`,
+    });
+  const pause = (ms: number) =>
+    new Promise<void>((resolve) => {
+      const timer = setTimeout(resolve, ms);
+      timer.unref();
+      timers.add(timer);
+    });
+
   const dropAfter = (req: http.IncomingMessage, ms: number) => {
     later(ms, () => req.socket.destroy());
   };
@@ -1095,9 +1160,19 @@ export async function createPaymentsFake(options: PaymentsFakeOptions = {}): Pro
     const authError = apiKeyError(req);
     if (authError) return fail(authError, { 'www-authenticate': 'Bearer realm="Cupel local payments fake"' });
 
-    const fault = takeFault(['500', 'timeout'], { method, path: url.pathname });
+    const fault = takeFault(['500', '409', '429', 'slow', 'timeout'], { method, path: url.pathname });
     if (fault?.kind === '500') {
       return fail(new ApiError(500, { type: 'api_error', message: "An unknown error occurred (injected by Cupel's local payments fake fault switch)." }));
+    }
+    if (fault?.kind === '409') return fail(keyInUse(idempotencyKey ?? '(none)'));
+    if (fault?.kind === '429') {
+      return fail(
+        new ApiError(429, {
+          type: 'invalid_request_error',
+          code: 'rate_limit',
+          message: "Too many requests hit the API too quickly (injected by Cupel's local payments fake fault switch).",
+        }),
+      );
     }
     if (fault?.kind === 'timeout' && !fault.process) return dropAfter(req, fault.delayMs);
 
@@ -1132,6 +1207,25 @@ export async function createPaymentsFake(options: PaymentsFakeOptions = {}): Pro
       const previous = replayOrError(idempotencyKey, fingerprint);
       if (previous instanceof ApiError) return respond(previous.status, JSON.stringify({ error: previous.error }, null, 2));
       if (previous) return respond(previous.status, previous.body, { 'idempotent-replayed': 'true', 'original-request': previous.request_id });
+      if (inFlight.has(idempotencyKey)) {
+        const err = keyInUse(idempotencyKey);
+        return respond(err.status, JSON.stringify({ error: err.error }, null, 2));
+      }
+    }
+    if (fault?.kind === 'slow') {
+      // Held before it is carried out, the way a slow provider request is: its key is in use meanwhile.
+      if (idempotencyKey) inFlight.add(idempotencyKey);
+      try {
+        await pause(fault.delayMs);
+      } finally {
+        if (idempotencyKey) inFlight.delete(idempotencyKey);
+      }
+      if (closed) return;
+      if (idempotencyKey) {
+        const previous = replayOrError(idempotencyKey, fingerprint);
+        if (previous instanceof ApiError) return respond(previous.status, JSON.stringify({ error: previous.error }, null, 2));
+        if (previous) return respond(previous.status, previous.body, { 'idempotent-replayed': 'true', 'original-request': previous.request_id });
+      }
     }
     const ctx: ApiContext = { method, path: url.pathname, params, account, requestId, idempotencyKey };
     let status: number;

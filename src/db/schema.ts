@@ -200,7 +200,11 @@ export const storeSettings = pgTable(
   ],
 );
 
-/** Append-only record of who did what; a trigger (migration 0001) refuses UPDATE and DELETE. */
+/**
+ * Append-only record of who did what; a trigger (migration 0001) refuses UPDATE and DELETE, and the
+ * application's role may only read and insert. Each row is chained into audit_chain when its
+ * transaction commits (migration 0006).
+ */
 export const auditLog = pgTable(
   'audit_log',
   {
@@ -213,11 +217,38 @@ export const auditLog = pgTable(
     before: jsonb('before'),
     after: jsonb('after'),
     at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+    /** The writing transaction, so the database can check that a change to a record on file was audited with it. */
+    txId: bigint('tx_id', { mode: 'number' })
+      .notNull()
+      .default(sql`txid_current()`),
   },
   (t) => [
     index('audit_log_entity_idx').on(t.entity, t.entityId),
     index('audit_log_store_at_idx').on(t.storeId, t.at),
+    index('audit_log_tx_idx').on(t.txId),
     check('audit_log_action_format', sql`${t.action} ~ '^[a-z][a-z0-9_.-]*$'`),
+  ],
+);
+
+/**
+ * The audit log as a hash chain, one entry per audit row in commit order, written only by the
+ * database (a deferred trigger running as the owner): hash = sha256(prev_hash | position | row).
+ * `select * from audit_chain_breaks()` lists any entry that does not verify.
+ */
+export const auditChain = pgTable(
+  'audit_chain',
+  {
+    position: bigint('position', { mode: 'number' }).primaryKey(),
+    auditId: bigint('audit_id', { mode: 'number' })
+      .notNull()
+      .references(() => auditLog.id, { onDelete: 'restrict' }),
+    prevHash: text('prev_hash').notNull(),
+    hash: text('hash').notNull(),
+  },
+  (t) => [
+    uniqueIndex('audit_chain_audit_unique').on(t.auditId),
+    check('audit_chain_position_positive', sql`${t.position} > 0`),
+    check('audit_chain_hash_format', sql`${t.hash} ~ '^[0-9a-f]{64}$' and ${t.prevHash} ~ '^[0-9a-f]{64}$'`),
   ],
 );
 
@@ -465,6 +496,21 @@ export const payments = pgTable(
     providerPayoutId: text('provider_payout_id'),
     payoutSpeed: text('payout_speed', { enum: ['standard', 'instant'] }),
     failureReason: text('failure_reason'),
+    /**
+     * Electronic payments and reversals while they are being sent: the lease (one sender at a time;
+     * a crashed sender's lease runs out), how many sends were tried, when the worker may try again
+     * and the last provider error. A failed call leaves the payment pending; only the provider's
+     * answer fails it.
+     */
+    sendingSince: timestamp('sending_since', { withTimezone: true }),
+    sendAttempts: integer('send_attempts').notNull().default(0),
+    nextSendAt: timestamp('next_send_at', { withTimezone: true }),
+    lastError: text('last_error'),
+    /** A reversal of an electronic payout: the provider's transfer reversal, or a manager's record of money recovered another way. */
+    providerReversalId: text('provider_reversal_id'),
+    recoveryNote: text('recovery_note'),
+    completedBy: text('completed_by').references(() => users.id, { onDelete: 'restrict' }),
+    completedAt: timestamp('completed_at', { withTimezone: true }),
     createdBy: text('created_by')
       .notNull()
       .references(() => users.id, { onDelete: 'restrict' }),
@@ -485,6 +531,47 @@ export const payments = pgTable(
     check('payments_cash_has_drawer', sql`${t.method} <> 'cash' or ${t.drawerId} is not null`),
     check('payments_check_has_number', sql`${t.method} <> 'check' or ${t.kind} <> 'payout' or ${t.checkNumber} is not null`),
     check('payments_reversal_refers', sql`(${t.kind} = 'reversal') = (${t.reversesPaymentId} is not null)`),
+    // The books never show electronic money returned that the provider did not confirm or a manager did not record.
+    check(
+      'payments_electronic_reversal_confirmed',
+      sql`${t.kind} <> 'reversal' or ${t.method} <> 'electronic' or ${t.state} <> 'completed' or ${t.providerReversalId} is not null or ${t.recoveryNote} is not null`,
+    ),
+    index('payments_due_send_idx').on(t.state, t.nextSendAt),
+  ],
+);
+
+export const PAYMENT_EXCEPTION_KINDS = ['payout-on-closed-ticket'] as const;
+
+/**
+ * Something about money that a manager must look at, raised instead of being settled silently: a
+ * payout the provider completed on a ticket that is no longer accepted (voided after the payout
+ * was sent, or changed by hand). Shown on the review page until a manager resolves it.
+ */
+export const paymentExceptions = pgTable(
+  'payment_exceptions',
+  {
+    id: text('id').primaryKey().$defaultFn(() => crypto.randomUUID()),
+    storeId: text('store_id')
+      .notNull()
+      .references(() => stores.id, { onDelete: 'restrict' }),
+    ticketId: text('ticket_id')
+      .notNull()
+      .references(() => tickets.id, { onDelete: 'restrict' }),
+    paymentId: text('payment_id')
+      .notNull()
+      .references(() => payments.id, { onDelete: 'restrict' }),
+    kind: text('kind', { enum: PAYMENT_EXCEPTION_KINDS }).notNull(),
+    message: text('message').notNull(),
+    raisedAt: timestamp('raised_at', { withTimezone: true }).notNull().defaultNow(),
+    resolvedAt: timestamp('resolved_at', { withTimezone: true }),
+    resolvedBy: text('resolved_by').references(() => users.id, { onDelete: 'restrict' }),
+    resolutionNote: text('resolution_note'),
+  },
+  (t) => [
+    uniqueIndex('payment_exceptions_once').on(t.paymentId, t.kind),
+    index('payment_exceptions_open_idx').on(t.storeId, t.resolvedAt),
+    check('payment_exceptions_kind_valid', sql`${t.kind} in ('payout-on-closed-ticket')`),
+    check('payment_exceptions_resolved_complete', sql`(${t.resolvedAt} is null) = (${t.resolvedBy} is null and ${t.resolutionNote} is null)`),
   ],
 );
 
@@ -554,12 +641,33 @@ export const sellerPayoutAccounts = pgTable(
   ],
 );
 
-/** Webhook events already handled, so a repeated delivery changes nothing. */
-export const providerEvents = pgTable('provider_events', {
-  eventId: text('event_id').primaryKey(),
-  type: text('type').notNull(),
-  receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
-});
+export const INBOX_STATES = ['received', 'applied', 'dead'] as const;
+
+/**
+ * The webhook inbox, the outbox's mirror: every provider event is stored (by its id, so a repeated
+ * delivery is stored once) and applied in one transaction with its state set to applied. An event
+ * whose application failed or never ran (a crash) stays received; the worker applies it later.
+ */
+export const providerEvents = pgTable(
+  'provider_events',
+  {
+    eventId: text('event_id').primaryKey(),
+    type: text('type').notNull(),
+    receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+    /** The verified event as the provider sent it (text, parsed once when applied). */
+    payload: text('payload'),
+    state: text('state', { enum: INBOX_STATES }).notNull().default('received'),
+    attempts: integer('attempts').notNull().default(0),
+    nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true }).notNull().defaultNow(),
+    lastError: text('last_error'),
+    appliedAt: timestamp('applied_at', { withTimezone: true }),
+  },
+  (t) => [
+    index('provider_events_due_idx').on(t.state, t.nextAttemptAt),
+    check('provider_events_state_valid', sql`${t.state} in ('received', 'applied', 'dead')`),
+    check('provider_events_received_has_payload', sql`${t.state} <> 'received' or ${t.payload} is not null`),
+  ],
+);
 
 export const OUTBOX_KINDS = ['receipt', 'payout-confirmation', 'onboarding-link', 'portal-sign-in'] as const;
 export const OUTBOX_STATES = ['pending', 'sent', 'dead'] as const;

@@ -42,6 +42,11 @@ export function fromDatabaseError(err: unknown): AppError | undefined {
       return new AppError(422, `Invalid value (${constraint})`, [{ path: constraint, message: 'refused by the database' }]);
     case '23503':
       return new AppError(422, `Refers to a missing record (${constraint})`, [{ path: constraint, message: 'unknown reference' }]);
+    // Raised by the triggers that keep accepted, paid and voided tickets as they were (migration 0006).
+    case '23R01':
+      return new AppError(409, `This record is on file and cannot be changed (${constraint})`, [{ path: constraint, message: 'on the record' }]);
+    case '23R02':
+      return new AppError(409, `A change to a record on file must be audited (${constraint})`, [{ path: constraint, message: 'not audited' }]);
     default:
       return undefined;
   }

@@ -39,13 +39,27 @@ async function paidTicketFor(email: string) {
   return { world, ticket: await getTicket(db, world.clerk, t.id) };
 }
 
+/**
+ * Runs the outbox until this message has been tried (other test files queue mail in the same
+ * database, and one pass takes the 50 oldest), bounded like any wait.
+ */
+async function deliverUntilTried(address: string, transport: Parameters<typeof deliverDueMail>[1], options: { now?: Date; attempts?: number } = {}) {
+  const deadline = Date.now() + 15_000;
+  for (;;) {
+    await deliverDueMail(db, transport, receiptAttachments(db), { now: options.now });
+    const [row] = await db.select().from(outboxMessages).where(eq(outboxMessages.toAddress, address));
+    if (row && (row.state !== 'pending' || row.attempts >= (options.attempts ?? 1))) return row;
+    if (Date.now() > deadline) throw new Error(`the outbox did not try the message to ${address}`);
+  }
+}
+
 describe('e-mail through the outbox, caught by maildev', () => {
   it('sends the receipt with the same totals as the ticket, a text and an HTML part, and the PDF', async () => {
     const email = `${unique('receipt')}@example.test`;
     const { ticket } = await paidTicketFor(email);
     const [queued] = await db.select().from(outboxMessages).where(and(eq(outboxMessages.toAddress, email), eq(outboxMessages.kind, 'receipt')));
     expect(queued!.state).toBe('pending');
-    await deliverDueMail(db, smtpTransport(), receiptAttachments(db));
+    await deliverUntilTried(email, smtpTransport());
     const [mail] = await mailTo(email);
     expect(mail).toBeDefined();
     const payout = moneyOf(ticket.payoutMinor, 'USD').formatted;
@@ -71,8 +85,7 @@ describe('e-mail through the outbox, caught by maildev', () => {
     await paidTicketFor(email);
     // A port nothing listens on stands for the mail server being down.
     const down = nodemailer.createTransport({ host: '127.0.0.1', port: 1, connectionTimeout: 1000, ignoreTLS: true });
-    const failed = await deliverDueMail(db, down, receiptAttachments(db));
-    expect(failed.failed).toBeGreaterThanOrEqual(1);
+    await deliverUntilTried(email, down);
     const [waiting] = await db.select().from(outboxMessages).where(eq(outboxMessages.toAddress, email));
     expect(waiting).toMatchObject({ state: 'pending', attempts: 1 });
     expect(waiting!.lastError).toMatch(/ECONNREFUSED|connect/i);
@@ -84,7 +97,7 @@ describe('e-mail through the outbox, caught by maildev', () => {
     expect(await mailTo(email)).toHaveLength(0);
 
     const later = new Date(Date.now() + retryDelayMs(1) + 1000);
-    await deliverDueMail(db, smtpTransport(), receiptAttachments(db), { now: later });
+    await deliverUntilTried(email, smtpTransport(), { now: later, attempts: 2 });
     await deliverDueMail(db, smtpTransport(), receiptAttachments(db), { now: later });
     expect(await mailTo(email)).toHaveLength(1);
     const [sent] = await db.select().from(outboxMessages).where(eq(outboxMessages.toAddress, email));

@@ -9,13 +9,15 @@ import { MAX_PHOTO_BYTES, storeObjectPrefix } from '@/features/photos/photos';
 import { createPhotoStorage, getPhoto, listPhotos, readPhotoForm, storePhoto } from '@/features/photos/photos.server';
 import { GET as getPhotoRoute } from '@/pages/api/photos/[id]';
 import { GET as listPhotosRoute, POST as postPhotoRoute } from '@/pages/api/photos/index';
-import { makeSeller, makeStore, makeUser, testDb, unique } from '../support/db';
+import { makeSeller, makeStore, makeUser, ownerTestDb, testDb, unique } from '../support/db';
 
 if (!process.env.S3_ENDPOINT) {
   throw new Error('S3_ENDPOINT is not set: run the photo tests through ./docker-free-start.sh test integration, which starts the S3 fake');
 }
 
 const db = testDb();
+// The owner role, for the one test that adds a trigger of its own.
+const owner = ownerTestDb();
 const storage = createPhotoStorage();
 afterAll(() => storage.client.destroy());
 
@@ -191,17 +193,17 @@ describe('storing photos', () => {
     const { store, clerk, line } = await counter();
     const fn = `refuse_photo_${unique('t').toLowerCase()}`;
     // Stands in for the line being deleted between the check and the insert.
-    await db.execute(
+    await owner.execute(
       sql.raw(`create function ${fn}() returns trigger language plpgsql as $$
         begin raise exception 'forced refusal' using errcode = '23503', constraint = 'photos_line_id_ticket_lines_id_fk'; end $$`),
     );
-    await db.execute(sql.raw(`create trigger ${fn} before insert on photos for each row when (new.store_id = '${store.id}') execute function ${fn}()`));
+    await owner.execute(sql.raw(`create trigger ${fn} before insert on photos for each row when (new.store_id = '${store.id}') execute function ${fn}()`));
     try {
       await expect(storePhoto(db, clerk, { storeId: store.id, kind: 'item', lineId: line.id, bytes: PNG }, storage)).rejects.toMatchObject({
         cause: { code: '23503' },
       });
     } finally {
-      await db.execute(sql.raw(`drop trigger ${fn} on photos; drop function ${fn}()`));
+      await owner.execute(sql.raw(`drop trigger ${fn} on photos; drop function ${fn}()`));
     }
     expect(await photoRows(store.id)).toHaveLength(0);
     expect(await keysUnder(storeObjectPrefix(store.id))).toEqual([]);

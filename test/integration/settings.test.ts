@@ -46,7 +46,7 @@ describe('store settings', () => {
     expect(await db.select().from(auditLog).where(eq(auditLog.storeId, a.id))).toHaveLength(0);
   });
 
-  it('migration 0005 moves saved rates of the old 18K-and-above band and the 800, 833 and 990 keys without changing a price', async () => {
+  it('migration 0008 moves saved rates of the old 18K-and-above band and the 800, 833 and 990 keys without changing a price', async () => {
     const a = await makeStore(db);
     const old = { basis: 'percent-of-melt', percent: '86' };
     const own = { basis: 'percent-of-melt', percent: '90' };
@@ -56,7 +56,7 @@ describe('store settings', () => {
     ]);
     // Before the migration the schema already reads the old band's rate for its three parts.
     expect((await getStoreSettings(db, a.id))['pricing.rates']).toEqual({ 'gold-jewelry-18k-to-21k': old, 'gold-jewelry-22k-to-23k': old, 'gold-jewelry-24k': own, 'silver-scrap': old });
-    const file = readFileSync(new URL('../../migrations/0005_split_karat_bands_and_metal_mark_keys.sql', import.meta.url), 'utf8');
+    const file = readFileSync(new URL('../../migrations/0008_split_karat_bands_and_metal_mark_keys.sql', import.meta.url), 'utf8');
     for (const statement of file.split('--> statement-breakpoint')) await db.execute(sql.raw(statement));
     const rows = await db.select().from(storeSettings).where(eq(storeSettings.storeId, a.id));
     const saved = Object.fromEntries(rows.map((r) => [r.key, r.value]));

@@ -95,6 +95,17 @@ describe('bullion platinum and palladium are not paid at jewelry rates', () => {
     expect(resolveRateCategory('palladium', 'scrap', yes)).toBe('palladium');
   });
 
+  it('platinum and palladium bullion coins of the catalogue pay the bullion rates', () => {
+    const q = priceQuote({
+      spot: { platinum: '1000.00', palladium: '1000.00' },
+      lines: [
+        { kind: 'coin', coinType: 'us-1oz-platinum-bullion', count: 1 },
+        { kind: 'coin', coinType: 'ca-1oz-palladium-bullion', count: 1 },
+      ],
+    });
+    expect((q.lines as PricedLine[]).map((l) => l.payoutRate.rateCategory)).toEqual(['platinum-bullion', 'palladium-bullion']);
+  });
+
   it('a 1 ozt platinum bar pays its bullion rate, not the jewelry rate', () => {
     const q = priceQuote({
       spot: { platinum: '1000.00' },

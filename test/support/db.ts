@@ -3,12 +3,26 @@ import { createDb, type Db } from '@/db/client';
 import { sellers, stores, users } from '@/db/schema';
 import { hashPassword } from '@/features/auth/password';
 
-/** The throwaway test database set up by `./docker-free-start.sh test`; never the demo data. */
-export function testDb(): Db {
-  const url = process.env.DATABASE_URL;
-  if (!url) throw new Error('DATABASE_URL is not set: run the tests through ./docker-free-start.sh test');
+function testUrl(name: 'DATABASE_URL' | 'MIGRATION_DATABASE_URL'): string {
+  const url = process.env[name];
+  if (!url) throw new Error(`${name} is not set: run the tests through ./docker-free-start.sh test`);
   if (!/cupel_test/.test(url)) throw new Error(`Refusing to run tests against ${url}: the database name must contain cupel_test`);
-  const handle = createDb(url, { max: 4 });
+  return url;
+}
+
+/**
+ * The throwaway test database set up by `./docker-free-start.sh test`, never the demo data,
+ * reached as the application's own role: the rights the app has, no more.
+ */
+export function testDb(): Db {
+  const handle = createDb(testUrl('DATABASE_URL'), { max: 4 });
+  afterAll(() => handle.close());
+  return handle.db;
+}
+
+/** The same database as the owner role that runs migrations, for the few tests that need DDL. */
+export function ownerTestDb(): Db {
+  const handle = createDb(testUrl('MIGRATION_DATABASE_URL'), { max: 2 });
   afterAll(() => handle.close());
   return handle.db;
 }
@@ -81,6 +95,18 @@ export async function makeSeller(db: Db, storeId: string, overrides: Partial<typ
     })
     .returning();
   return row!;
+}
+
+/** Runs a statement and returns the PostgreSQL error it failed with: code and message (code 'ok' when it did not fail). */
+export async function pgError(run: () => Promise<unknown>): Promise<{ code: string; message: string }> {
+  try {
+    await run();
+    return { code: 'ok', message: '' };
+  } catch (err) {
+    const e = err as { code?: string; message?: string; cause?: { code?: string; message?: string } };
+    const source = e.code ? e : (e.cause ?? e);
+    return { code: source.code ?? 'unknown', message: source.message ?? String(err) };
+  }
 }
 
 /** Runs a statement and returns the PostgreSQL error code it failed with (or 'ok'). */

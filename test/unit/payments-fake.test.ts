@@ -351,6 +351,63 @@ describe('idempotency', () => {
   });
 });
 
+describe('keys in use, rate limits and transfer reversals', () => {
+  it('answers 409 idempotency_key_in_use to a second request with a key whose first request is still being carried out, then replays', async () => {
+    const account = await onboardedWithFunds(1);
+    fake.addFault({ next: 'slow', path: '/v1/transfers', delayMs: 400 });
+    const params = { amount: 700, currency: 'usd', destination: account.id };
+    const first = stripe.transfers.create(params, { idempotencyKey: 'in-use' });
+    await new Promise((r) => setTimeout(r, 100));
+    const second = await caught(stripe.transfers.create(params, { idempotencyKey: 'in-use' }));
+    expect(second.statusCode).toBe(409);
+    expect(second).toMatchObject({ rawType: 'idempotency_error', code: 'idempotency_key_in_use' });
+    const done = await first;
+    const third = await stripe.transfers.create(params, { idempotencyKey: 'in-use' });
+    expect(third.id).toBe(done.id);
+    expect(third.lastResponse.headers['idempotent-replayed']).toBe('true');
+    expect(Object.values(fake.state.transfers).filter((t) => t.amount === 700)).toHaveLength(1);
+  });
+
+  it('a request with another key is not held up by a key in use', async () => {
+    const account = await onboardedWithFunds(1);
+    fake.addFault({ next: 'slow', path: '/v1/transfers', delayMs: 300 });
+    const first = stripe.transfers.create({ amount: 10, currency: 'usd', destination: account.id }, { idempotencyKey: 'slow-a' });
+    const other = await stripe.transfers.create({ amount: 10, currency: 'usd', destination: account.id }, { idempotencyKey: 'slow-b' });
+    expect(other.id).not.toBe((await first).id);
+  });
+
+  it('answers 429 rate_limit and 409 on demand, keeps neither, and the same key then goes through once', async () => {
+    const account = await onboardedWithFunds(1);
+    expect((await adminPost('/_fake/faults', { next: '429', path: '/v1/transfers' })).status).toBe(200);
+    fake.addFault({ next: '409', path: '/v1/transfers' });
+    const params = { amount: 900, currency: 'usd', destination: account.id };
+    const limited = await caught(stripe.transfers.create(params, { idempotencyKey: 'limited' }));
+    expect(limited).toBeInstanceOf(Stripe.errors.StripeRateLimitError);
+    expect(limited).toMatchObject({ statusCode: 429, code: 'rate_limit' });
+    const conflict = await caught(stripe.transfers.create(params, { idempotencyKey: 'limited' }));
+    expect(conflict).toMatchObject({ statusCode: 409, code: 'idempotency_key_in_use' });
+    const ok = await stripe.transfers.create(params, { idempotencyKey: 'limited' });
+    expect(ok.lastResponse.headers['idempotent-replayed']).toBeUndefined();
+    expect(Object.values(fake.state.transfers).filter((t) => t.amount === 900)).toHaveLength(1);
+  });
+
+  it('reverses a transfer once per key, moving the money back to the platform and sending transfer.reversed', async () => {
+    const account = await onboardedWithFunds(2_000);
+    const [transfer] = Object.values(fake.state.transfers);
+    const platformBefore = fake.state.platform_balance.usd!;
+    const reversal = await stripe.transfers.createReversal(transfer!.id, { amount: 2_000, metadata: { why: 'void' } }, { idempotencyKey: 'rev-1' });
+    const again = await stripe.transfers.createReversal(transfer!.id, { amount: 2_000, metadata: { why: 'void' } }, { idempotencyKey: 'rev-1' });
+    expect(again.id).toBe(reversal.id);
+    expect(reversal).toMatchObject({ object: 'transfer_reversal', amount: 2_000, transfer: transfer!.id });
+    expect(fake.state.platform_balance.usd).toBe(platformBefore + 2_000);
+    expect((await stripe.balance.retrieve({}, { stripeAccount: account.id })).available[0]?.amount).toBe(0);
+    expect((await stripe.transfers.retrieve(transfer!.id)).reversed).toBe(true);
+    const more = await caught(stripe.transfers.createReversal(transfer!.id, { amount: 1 }, { idempotencyKey: 'rev-2' }));
+    expect(more.code).toBe('transfer_reversal_exceeds_transfer');
+    await waitFor(() => listener.ofType('transfer.reversed')[0], 'transfer.reversed');
+  });
+});
+
 describe('payout outcomes and webhook delivery', () => {
   it('fails a payout when the fault switch says decline, returning the funds and sending payout.failed', async () => {
     const account = await onboardedWithFunds(4_000);

@@ -291,3 +291,42 @@ describe('perThousand', () => {
     expect(perThousand('0.416667')).toBe('416.7/1000');
   });
 });
+
+describe('coin counted by face value on the receipt', () => {
+  const faceLine = (item: Record<string, unknown>) =>
+    line({
+      position: 1,
+      description: 'US 40% silver half dollars (1965-1970), 10.00 face',
+      input: { item: { kind: 'face-value', coinClass: 'us-40', faceValue: '10.00', ...item } },
+      testMethod: 'none',
+      testResult: null,
+      markedFineness: '0.400000',
+      paidOnFineness: '0.400000',
+      grossWeightGrams: null,
+      netWeightGrams: null,
+      fineWeightGrams: '92.0040',
+      fineWeightTroyOunces: '2.958000',
+      rateLabel: '85% of melt',
+      meltValueMinor: 8874,
+      payoutMinor: 7543,
+      marginMinor: 1331,
+      tagNumber: null,
+    });
+
+  it('says which basis priced the line, in the model and the printed text', () => {
+    const receipt = buildReceipt(ticket({ meltValueMinor: 8874, payoutMinor: 7543, marginMinor: 1331, lines: [faceLine({ basis: 'mint-weight' })] }));
+    expect(receipt.lines[0]!.basis).toBe('10.00 face at 0.2958 ozt per 1.00 face, mint weight');
+    const text = receiptPlainText(receipt).replace(/\s+/g, ' ');
+    expect(text).toContain('Counted: 10.00 face at 0.2958 ozt per 1.00 face, mint weight');
+  });
+
+  it("reads a saved line without a basis as its class's counter basis, and 90% coin as circulated", () => {
+    expect(buildReceipt(ticket({ lines: [faceLine({})] })).lines[0]!.basis).toBe('10.00 face at 0.2958 ozt per 1.00 face, mint weight');
+    const ninety = faceLine({ coinClass: 'us-90', basis: 'common-practice' });
+    expect(buildReceipt(ticket({ lines: [ninety] })).lines[0]!.basis).toBe('10.00 face at 0.715 ozt per 1.00 face, circulated, common practice');
+  });
+
+  it('has no basis for lines priced by weight or count', () => {
+    for (const l of buildReceipt(ticket()).lines) expect(l.basis).toBeNull();
+  });
+});

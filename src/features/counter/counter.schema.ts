@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { ID_DOCUMENT_TYPES, METAL_VALUES, TEST_METHODS } from '@/db/enums';
 import { quoteLineSchema, spotField } from '@/features/pricing/pricing.schema';
+import { faceValueClass } from '@/features/pricing/coins';
 import { optionalEmail, optionalText, requiredText } from '@/lib/zod-fields';
 
 const isoDate = (field: string) =>
@@ -54,6 +55,11 @@ export const counterLineSchema = z.object({
   testResult: optionalText(200),
   note: optionalText(500),
   raisePoints,
+}).transform((line) => {
+  // A face-value line without a basis is counted on its class's counter basis; the saved line says which.
+  const item = line.item;
+  if (item.kind !== 'face-value' || item.basis) return line;
+  return { ...line, item: { ...item, basis: faceValueClass(item.coinClass)!.counterBasis } };
 });
 export type CounterLineInput = z.input<typeof counterLineSchema>;
 

@@ -3,6 +3,7 @@ import type { Metal } from '@/features/pricing/metals';
 import type { WeightUnit } from '@/features/pricing/units';
 import type { LineCategory } from '@/features/pricing/rates';
 import { DECIMAL_PATTERN } from '@/features/pricing/decimal';
+import { counterFaceValueBasis, type FaceValueBasis } from '@/features/pricing/coins';
 
 export { TEST_METHODS };
 
@@ -27,6 +28,8 @@ export interface GradingLine {
   count: string;
   coinClass: string;
   faceValue: string;
+  /** The clerk's choice of basis for face value; '' is the class's counter basis. */
+  faceBasis: '' | FaceValueBasis;
   fineValue: string;
   description: string;
   testMethod: TestMethod;
@@ -55,6 +58,7 @@ export function newGradingLine(overrides: Partial<GradingLine> = {}): GradingLin
     count: '',
     coinClass: 'us-90',
     faceValue: '',
+    faceBasis: '',
     fineValue: '',
     description: '',
     testMethod: 'none',
@@ -106,7 +110,8 @@ export function toCounterLine(line: GradingLine): { ok: true; payload: CounterLi
       break;
     case 'face-value':
       if (!filled(line.faceValue)) return { ok: false, prompt: 'Enter the face value' };
-      item = { kind: 'face-value', coinClass: line.coinClass, faceValue: line.faceValue.trim(), basis: 'common-practice', description };
+      // Always a basis the class has a figure for, so the line is priced and the ticket records which basis priced it.
+      item = { kind: 'face-value', coinClass: line.coinClass, faceValue: line.faceValue.trim(), basis: counterFaceValueBasis(line.coinClass, line.faceBasis || undefined), description };
       break;
     case 'fine-weight':
       if (!line.metal) return { ok: false, prompt: 'Choose the metal' };
@@ -148,6 +153,7 @@ export function fromCounterLine(input: CounterLinePayload): GradingLine {
     count: item.count !== undefined ? String(item.count) : '',
     coinClass: item.coinClass ?? 'us-90',
     faceValue: item.faceValue ?? '',
+    faceBasis: item.basis ?? '',
     fineValue: item.fineWeight?.value ?? '',
     description: item.description ?? '',
     testMethod: input.testMethod ?? 'none',

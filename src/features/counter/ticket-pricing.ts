@@ -159,6 +159,12 @@ export function rateLabel(line: PricedLine): string {
   return r.basis === 'percent-of-melt' ? `${r.percent}% of melt` : `${r.amountUnderSpotPerTroyOunce} under spot per ozt`;
 }
 
+/** How a face-value line was counted, for the line and the receipt: "0.2958 ozt per 1.00 face, mint weight". */
+export function faceValueBasisLine(line: PricedLine | null | undefined): string | null {
+  const f = line?.faceValue;
+  return f ? `${f.troyOuncesPerDollarFace} ozt per 1.00 face, ${f.basisLabel}` : null;
+}
+
 /** part / melt x 100 to two places, half-up, exactly; null when there is no melt value. */
 export function percentOfMelt(partMinor: number, meltMinor: number): string | null {
   return meltMinor === 0 ? null : ratioToFixedHalfUp(new Dec(partMinor).mul(100), new Dec(meltMinor), 2);

@@ -43,6 +43,7 @@ import type { SaveLinesInput } from './counter.schema';
 import { currentSpots } from './spot.server';
 import { priceTicket, rateLabel, type PricedTicket } from './ticket-pricing';
 import { Dec } from '@/features/pricing/decimal';
+import { createPendingReversal, sendReversal } from '@/features/payouts/reversals.server';
 
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
@@ -685,18 +686,41 @@ export async function queueReceiptMail(tx: DbOrTx, ticketId: string): Promise<vo
   await enqueueMail(tx, { storeId: view.storeId, kind: 'receipt', to: view.seller.email, ...content, attachTicketReceiptId: view.id });
 }
 
+/**
+ * A manager voids a ticket. Refused (409, naming the payout) while an electronic payout is pending:
+ * the money may be on its way. Cash and check payouts of a paid ticket are reversed at once (the
+ * money is handed back at the counter); an electronic payout gets a pending reversal that only the
+ * provider's confirmation or a manager's record of the recovery completes.
+ */
 export async function voidTicket(db: Db, actor: SessionUser, ticketId: string, reason: string) {
   if (actor.role !== 'manager' && actor.role !== 'admin') throw new AppError(403, 'Only a manager may void a ticket');
-  return db.transaction(async (tx) => {
+  const { view, toSend } = await db.transaction(async (tx) => {
     const ticket = await lockTicket(tx, actor, ticketId);
     requireTransition(ticket.state, 'void');
+    const [live] = await tx
+      .select()
+      .from(payments)
+      .where(and(eq(payments.ticketId, ticket.id), eq(payments.kind, 'payout'), eq(payments.state, 'pending')));
+    if (live) {
+      const label = `payout ${live.id}${live.providerPayoutId ? ` (provider payout ${live.providerPayoutId})` : ''}`;
+      throw new AppError(409, `An electronic ${label} is pending for this ticket: it cannot be voided until the provider confirms or fails it`, [
+        { path: 'payment', message: live.id },
+      ]);
+    }
     const reversals: string[] = [];
+    const toSend: string[] = [];
     if (ticket.state === 'paid') {
       const paid = await tx
         .select()
         .from(payments)
         .where(and(eq(payments.ticketId, ticket.id), eq(payments.kind, 'payout'), eq(payments.state, 'completed')));
       for (const p of paid) {
+        if (p.method === 'electronic') {
+          const pending = await createPendingReversal(tx, p, actor.id, { sendNow: true });
+          reversals.push(pending.id);
+          toSend.push(pending.id);
+          continue;
+        }
         const [rev] = await tx
           .insert(payments)
           .values({
@@ -724,10 +748,14 @@ export async function voidTicket(db: Db, actor: SessionUser, ticketId: string, r
       entity: 'ticket',
       entityId: ticket.id,
       before: { state: ticket.state },
-      after: { state: 'voided', reason, reversals },
+      after: { state: 'voided', reason, reversals, pendingReversals: toSend },
     });
-    return getTicket(tx, actor, ticket.id);
+    return { view: await getTicket(tx, actor, ticket.id), toSend };
   });
+  if (!toSend.length) return view;
+  // Asked after the commit; a reversal the provider does not confirm now stays pending for the worker.
+  for (const id of toSend) await sendReversal(db, id).catch(() => null);
+  return getTicket(db, actor, ticketId);
 }
 
 // ---------------------------------------------------------------------------

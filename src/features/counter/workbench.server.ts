@@ -49,7 +49,7 @@ export async function workbenchData(db: DbOrTx, user: SessionUser, ticketId: str
         tagNumber: l.tagNumber,
       })),
       approvals: ticket.approvals.map((a) => ({ id: a.id, state: a.state, raisePoints: a.raisePoints, note: a.note })),
-      payments: ticket.payments.map((p) => ({ id: p.id, kind: p.kind, method: p.method, amountMinor: p.amountMinor, state: p.state, checkNumber: p.checkNumber, failureReason: p.failureReason })),
+      payments: ticket.payments.map((p) => ({ id: p.id, kind: p.kind, method: p.method, amountMinor: p.amountMinor, state: p.state, checkNumber: p.checkNumber, failureReason: p.failureReason, lastError: p.lastError })),
     },
     seller: {
       id: seller.seller.id,

@@ -22,7 +22,7 @@ export function receiptMail(model: ReceiptModel): MailContent {
     .map(
       (l) => `<tr>
   <td style="padding:6px 4px;border-top:1px solid #e6eaef">${l.position}. ${esc(l.description)}<br><span style="color:#465468;font-size:13px">${esc(
-    [l.mark && `mark ${l.mark}`, l.test, l.netWeight && `net ${l.netWeight}`, l.fineness && `paid on ${l.fineness}`, l.fineWeightGrams && `fine ${l.fineWeightGrams}`, l.spotPerTroyOunce && `spot ${l.spotPerTroyOunce}`, l.rate, l.tagNumber && `tag ${l.tagNumber}`]
+    [l.mark && `mark ${l.mark}`, l.test, l.netWeight && `net ${l.netWeight}`, l.fineness && `paid on ${l.fineness}`, l.fineWeightGrams && `fine ${l.fineWeightGrams}`, l.basis && `counted ${l.basis}`, l.spotPerTroyOunce && `spot ${l.spotPerTroyOunce}`, l.rate, l.tagNumber && `tag ${l.tagNumber}`]
       .filter(Boolean)
       .join(' · '),
   )}</span></td>

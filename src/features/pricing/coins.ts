@@ -1,208 +1,12 @@
 import type { Metal } from './metals';
+import type { CoinSpec } from './coin-spec';
+import { US_COINS } from './coins-us';
+import { WORLD_COINS } from './coins-world';
 
-export type CoinCategory = 'coin' | 'bullion';
+export type { CoinCategory, CoinSpec } from './coin-spec';
 
-export interface CoinSpec {
-  readonly coinType: string;
-  readonly label: string;
-  readonly issuer: string;
-  readonly denomination: string;
-  readonly years: string;
-  readonly metal: Metal;
-  readonly grossWeightGrams: string;
-  readonly fineness: string;
-  /** The issuer's stated fine content per coin; priced on this figure. */
-  readonly fineTroyOunces: string;
-  readonly category: CoinCategory;
-  readonly source: string;
-}
-
-const spec = (s: CoinSpec): CoinSpec => Object.freeze(s);
-
-export const COIN_CATALOGUE: readonly CoinSpec[] = Object.freeze([
-  spec({
-    coinType: 'us-90-dime',
-    label: 'US dime, 90% silver (1964 and earlier)',
-    issuer: 'United States Mint',
-    denomination: '10 cents',
-    years: '1964 and earlier',
-    metal: 'silver',
-    grossWeightGrams: '2.50',
-    fineness: '0.900',
-    fineTroyOunces: '0.07234',
-    category: 'coin',
-    source: 'US Mint coin specifications (from memory)',
-  }),
-  spec({
-    coinType: 'us-90-quarter',
-    label: 'US quarter dollar, 90% silver (1964 and earlier)',
-    issuer: 'United States Mint',
-    denomination: '25 cents',
-    years: '1964 and earlier',
-    metal: 'silver',
-    grossWeightGrams: '6.25',
-    fineness: '0.900',
-    fineTroyOunces: '0.18084',
-    category: 'coin',
-    source: 'US Mint coin specifications (from memory)',
-  }),
-  spec({
-    coinType: 'us-90-half',
-    label: 'US half dollar, 90% silver (1964 and earlier)',
-    issuer: 'United States Mint',
-    denomination: '50 cents',
-    years: '1964 and earlier',
-    metal: 'silver',
-    grossWeightGrams: '12.50',
-    fineness: '0.900',
-    fineTroyOunces: '0.36169',
-    category: 'coin',
-    source: 'US Mint coin specifications (from memory)',
-  }),
-  spec({
-    coinType: 'us-90-dollar',
-    label: 'US silver dollar, 90% silver (1878-1935)',
-    issuer: 'United States Mint',
-    denomination: '1 dollar',
-    years: '1878-1935',
-    metal: 'silver',
-    grossWeightGrams: '26.73',
-    fineness: '0.900',
-    fineTroyOunces: '0.7734',
-    category: 'coin',
-    source: 'US Mint coin specifications (from memory)',
-  }),
-  spec({
-    coinType: 'us-40-half',
-    label: 'US half dollar, 40% silver (1965-1970)',
-    issuer: 'United States Mint',
-    denomination: '50 cents',
-    years: '1965-1970',
-    metal: 'silver',
-    grossWeightGrams: '11.50',
-    fineness: '0.400',
-    fineTroyOunces: '0.1479',
-    category: 'coin',
-    source: 'US Mint coin specifications (from memory)',
-  }),
-  spec({
-    coinType: 'us-35-nickel',
-    label: 'US five cents, 35% silver (1942-1945)',
-    issuer: 'United States Mint',
-    denomination: '5 cents',
-    years: '1942-1945',
-    metal: 'silver',
-    grossWeightGrams: '5.00',
-    fineness: '0.350',
-    fineTroyOunces: '0.05626',
-    category: 'coin',
-    source: 'US Mint coin specifications (from memory)',
-  }),
-  spec({
-    coinType: 'us-1oz-silver-bullion',
-    label: 'US 1 oz silver bullion coin (.999)',
-    issuer: 'United States Mint',
-    denomination: '1 dollar',
-    years: '1986 onward',
-    metal: 'silver',
-    grossWeightGrams: '31.103',
-    fineness: '0.999',
-    fineTroyOunces: '1',
-    category: 'bullion',
-    source: 'US Mint bullion coin specifications: 1 troy oz of .999 silver (from memory)',
-  }),
-  spec({
-    coinType: 'us-1oz-gold-bullion',
-    label: 'US 1 oz gold bullion coin (22 karat)',
-    issuer: 'United States Mint',
-    denomination: '50 dollars',
-    years: '1986 onward',
-    metal: 'gold',
-    grossWeightGrams: '33.931',
-    fineness: '0.9167',
-    fineTroyOunces: '1',
-    category: 'bullion',
-    source: 'US Mint bullion coin specifications: 33.931 g, 22 karat, 1 troy oz of gold (from memory)',
-  }),
-  spec({
-    coinType: 'ca-1oz-silver-bullion',
-    label: 'Canada 1 oz silver bullion coin (.9999)',
-    issuer: 'Royal Canadian Mint',
-    denomination: '5 dollars',
-    years: '1988 onward',
-    metal: 'silver',
-    grossWeightGrams: '31.39',
-    fineness: '0.9999',
-    fineTroyOunces: '1',
-    category: 'bullion',
-    source: 'Royal Canadian Mint bullion specifications: 31.39 g, .9999, 1 troy oz (from memory)',
-  }),
-  spec({
-    coinType: 'ca-1oz-gold-bullion',
-    label: 'Canada 1 oz gold bullion coin (.9999)',
-    issuer: 'Royal Canadian Mint',
-    denomination: '50 dollars',
-    years: '1982 onward',
-    metal: 'gold',
-    grossWeightGrams: '31.11',
-    fineness: '0.9999',
-    fineTroyOunces: '1',
-    category: 'bullion',
-    source: 'Royal Canadian Mint bullion specifications: 31.11 g, .9999, 1 troy oz (from memory)',
-  }),
-  spec({
-    coinType: 'uk-1oz-gold-bullion-22k',
-    label: 'UK 1 oz gold bullion coin (22 karat, to 2012)',
-    issuer: 'The Royal Mint (UK)',
-    denomination: '100 pounds',
-    years: '1987-2012',
-    metal: 'gold',
-    grossWeightGrams: '34.05',
-    fineness: '0.9167',
-    fineTroyOunces: '1',
-    category: 'bullion',
-    source: 'The Royal Mint bullion specifications: 34.05 g, .9167, 1 troy oz (from memory)',
-  }),
-  spec({
-    coinType: 'uk-1oz-gold-bullion-9999',
-    label: 'UK 1 oz gold bullion coin (.9999, 2013 onward)',
-    issuer: 'The Royal Mint (UK)',
-    denomination: '100 pounds',
-    years: '2013 onward',
-    metal: 'gold',
-    grossWeightGrams: '31.21',
-    fineness: '0.9999',
-    fineTroyOunces: '1',
-    category: 'bullion',
-    source: 'The Royal Mint bullion specifications: 31.21 g, .9999, 1 troy oz (from memory)',
-  }),
-  spec({
-    coinType: 'za-1oz-gold-bullion',
-    label: 'South Africa 1 oz gold bullion coin (22 karat)',
-    issuer: 'South African Mint',
-    denomination: 'no face value',
-    years: '1967 onward',
-    metal: 'gold',
-    grossWeightGrams: '33.93',
-    fineness: '0.9167',
-    fineTroyOunces: '1',
-    category: 'bullion',
-    source: 'South African Mint bullion specifications: 33.93 g, .9167, 1 troy oz (from memory)',
-  }),
-  spec({
-    coinType: 'at-1oz-gold-bullion',
-    label: 'Austria 1 oz gold bullion coin (.9999)',
-    issuer: 'Austrian Mint',
-    denomination: '100 euros',
-    years: '2002 onward',
-    metal: 'gold',
-    grossWeightGrams: '31.103',
-    fineness: '0.9999',
-    fineTroyOunces: '1',
-    category: 'bullion',
-    source: 'Austrian Mint bullion specifications: 31.103 g, .9999, 1 troy oz (from memory)',
-  }),
-]);
+/** Every coin and bullion coin priced by count. Figures and sources: coins-us.ts and coins-world.ts. */
+export const COIN_CATALOGUE: readonly CoinSpec[] = Object.freeze([...US_COINS, ...WORLD_COINS]);
 
 const BY_TYPE = new Map(COIN_CATALOGUE.map((c) => [c.coinType, c]));
 
@@ -212,40 +16,97 @@ export function coinSpec(coinType: string): CoinSpec | undefined {
 
 export const COIN_TYPES = COIN_CATALOGUE.map((c) => c.coinType);
 
-export type FaceValueBasis = 'common-practice' | 'mint-weight';
+// ---------------------------------------------------------------------------
+// Coin counted by face value
+// ---------------------------------------------------------------------------
+
+/**
+ * `mint-weight`: the fine content of uncirculated coin, from the mint's weights.
+ * `common-practice`: the figure the trade counts for worn, circulated coin, where it has one.
+ */
+export const FACE_VALUE_BASES = ['common-practice', 'mint-weight'] as const;
+export type FaceValueBasis = (typeof FACE_VALUE_BASES)[number];
+
+/** How the basis reads on the line and on the receipt. */
+export const FACE_VALUE_BASIS_LABELS: Readonly<Record<FaceValueBasis, string>> = Object.freeze({
+  'mint-weight': 'mint weight',
+  'common-practice': 'circulated, common practice',
+});
 
 export interface FaceValueClass {
   readonly coinClass: string;
   readonly label: string;
   readonly metal: Metal;
   readonly fineness: string;
-  /** Face value must be a whole multiple of this (the smallest coin in the class). */
+  /** Face value must be a whole multiple of this. */
   readonly faceStep: string;
-  readonly troyOuncesPerDollarFace: Readonly<Partial<Record<FaceValueBasis, string>>>;
-  readonly source: string;
+  /** Gross weight of 1.00 face at mint weight. */
+  readonly grossGramsPerDollarFace: string;
+  /** Fine troy ounces per 1.00 face; every class has `mint-weight`. */
+  readonly troyOuncesPerDollarFace: Readonly<{ 'mint-weight': string } & Partial<Record<FaceValueBasis, string>>>;
+  /** Where each figure comes from. */
+  readonly basisSources: Readonly<Partial<Record<FaceValueBasis, string>>>;
+  /** The basis the counter uses unless the clerk chooses another this class has. */
+  readonly counterBasis: FaceValueBasis;
+  readonly note?: string;
 }
 
+const faceClass = (c: FaceValueClass): FaceValueClass => Object.freeze(c);
+
 export const FACE_VALUE_CLASSES: readonly FaceValueClass[] = Object.freeze([
-  Object.freeze({
+  faceClass({
     coinClass: 'us-90',
-    label: 'US 90% silver coin by face value (dimes, quarters, halves, 1964 and earlier)',
+    label: 'US 90% silver dimes, quarters and halves (1873-1964)',
     metal: 'silver',
     fineness: '0.900',
     faceStep: '0.05',
-    // Mint weight: $1 face = 10 dimes x 2.50 g x 0.900 = 22.5 g = 0.7234 ozt.
-    // Circulated coin is worn; the trade counts 0.715 ozt per $1 face (common practice).
+    // 1.00 face = 10 dimes x 2.50 g = 25.00 g at 0.900 = 22.5 g = 0.7234 ozt.
+    grossGramsPerDollarFace: '25.00',
     troyOuncesPerDollarFace: { 'mint-weight': '0.7234', 'common-practice': '0.715' },
-    source: 'Mint weight from US Mint specifications; 0.715 ozt per $1 is common practice',
+    basisSources: {
+      'mint-weight': 'US Mint coin specifications: 2.50 g per dime, 90% silver (from memory)',
+      'common-practice': 'common practice: the trade counts worn, circulated 90% coin at 0.715 ozt per 1.00 face',
+    },
+    counterBasis: 'common-practice',
+    note: 'Coins before 1873 weigh less: weigh them and price by weight.',
   }),
-  Object.freeze({
+  faceClass({
     coinClass: 'us-40',
-    label: 'US 40% silver half dollars by face value (1965-1970)',
+    label: 'US 40% silver half dollars (1965-1970)',
     metal: 'silver',
     fineness: '0.400',
     faceStep: '0.50',
-    // $1 face = 2 halves x 11.50 g x 0.400 = 9.2 g = 0.2958 ozt.
+    // 1.00 face = 2 halves x 11.50 g = 23.00 g at 0.400 = 9.2 g = 0.2958 ozt.
+    grossGramsPerDollarFace: '23.00',
     troyOuncesPerDollarFace: { 'mint-weight': '0.2958' },
-    source: 'Mint weight from US Mint specifications',
+    basisSources: { 'mint-weight': 'US Mint coin specifications: 11.50 g per half dollar, 40% silver overall (from memory)' },
+    counterBasis: 'mint-weight',
+  }),
+  faceClass({
+    coinClass: 'us-35',
+    label: 'US 35% silver five-cent pieces (mid-1942 to 1945)',
+    metal: 'silver',
+    fineness: '0.350',
+    faceStep: '0.05',
+    // 1.00 face = 20 pieces x 5.00 g = 100.00 g at 0.350 = 35 g = 1.1253 ozt.
+    grossGramsPerDollarFace: '100.00',
+    troyOuncesPerDollarFace: { 'mint-weight': '1.1253' },
+    basisSources: { 'mint-weight': 'US Mint coin specifications: 5.00 g per five-cent piece, 35% silver (from memory)' },
+    counterBasis: 'mint-weight',
+    note: 'Only the wartime pieces with a large mint mark above the dome are silver; five-cent pieces of early 1942 are copper-nickel.',
+  }),
+  faceClass({
+    coinClass: 'ca-80',
+    label: 'Canada 80% silver 10, 25, 50 cents and dollars (1920-1966)',
+    metal: 'silver',
+    fineness: '0.800',
+    faceStep: '0.05',
+    // 1.00 face = one dollar of 23.327 g (or 2 halves, 4 quarters, 10 dimes) at 0.800 = 18.66 g = 0.6000 ozt.
+    grossGramsPerDollarFace: '23.327',
+    troyOuncesPerDollarFace: { 'mint-weight': '0.6000' },
+    basisSources: { 'mint-weight': 'Royal Canadian Mint coin specifications: 23.327 g per dollar, 80% silver (from memory)' },
+    counterBasis: 'mint-weight',
+    note: 'Coins of 1967 are 80% or 50% silver, and dimes and quarters of 1968 50% silver or nickel: test them.',
   }),
 ]);
 
@@ -256,3 +117,29 @@ export function faceValueClass(coinClass: string): FaceValueClass | undefined {
 }
 
 export const FACE_VALUE_CLASS_IDS = FACE_VALUE_CLASSES.map((c) => c.coinClass);
+
+/** The bases a class has a figure for, the counter's own first. */
+export function faceValueBases(cls: FaceValueClass): FaceValueBasis[] {
+  return [cls.counterBasis, ...FACE_VALUE_BASES.filter((b) => b !== cls.counterBasis && cls.troyOuncesPerDollarFace[b] !== undefined)];
+}
+
+/** The basis a line is priced on: the one asked for, or the class's counter basis when none is. */
+export function faceValueBasisFor(cls: FaceValueClass, requested: FaceValueBasis | undefined): FaceValueBasis {
+  return requested ?? cls.counterBasis;
+}
+
+/** What the counter sends: the clerk's choice when the class has that figure, otherwise the class's counter basis. */
+export function counterFaceValueBasis(coinClass: string, chosen: string | undefined): FaceValueBasis | undefined {
+  const cls = faceValueClass(coinClass);
+  if (!cls) return undefined;
+  return faceValueBases(cls).find((b) => b === chosen) ?? cls.counterBasis;
+}
+
+/** "0.2958 ozt per 1.00 face, mint weight", or null for a class or basis without a figure. */
+export function faceValueBasisText(coinClass: string, basis: string | undefined): string | null {
+  const cls = faceValueClass(coinClass);
+  if (!cls) return null;
+  const b = faceValueBasisFor(cls, (FACE_VALUE_BASES as readonly string[]).includes(basis ?? '') ? (basis as FaceValueBasis) : undefined);
+  const perDollar = cls.troyOuncesPerDollarFace[b];
+  return perDollar === undefined ? null : `${perDollar} ozt per 1.00 face, ${FACE_VALUE_BASIS_LABELS[b]}`;
+}

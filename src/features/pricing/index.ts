@@ -50,7 +50,22 @@ export {
   type MarkCandidate,
   type MarkKind,
 } from './marks';
-export { COIN_CATALOGUE, COIN_TYPES, FACE_VALUE_CLASSES, coinSpec, faceValueClass, type CoinSpec, type FaceValueClass } from './coins';
+export {
+  COIN_CATALOGUE,
+  COIN_TYPES,
+  FACE_VALUE_CLASSES,
+  FACE_VALUE_BASES,
+  FACE_VALUE_BASIS_LABELS,
+  coinSpec,
+  faceValueClass,
+  faceValueBases,
+  faceValueBasisFor,
+  counterFaceValueBasis,
+  faceValueBasisText,
+  type CoinSpec,
+  type FaceValueClass,
+  type FaceValueBasis,
+} from './coins';
 export {
   DEFAULT_RATES,
   RATE_CATEGORIES,

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { COIN_TYPES, FACE_VALUE_CLASS_IDS } from './coins';
+import { COIN_TYPES, FACE_VALUE_BASES, FACE_VALUE_CLASS_IDS } from './coins';
 import { DECIMAL_PATTERN, Dec, compareRatio, parseRatio } from './decimal';
 import { RENAMED_MARK_KEYS, isMarkKey, markedFinenessOfKey, parseMark } from './marks';
 import { METALS } from './metals';
@@ -188,7 +188,8 @@ export const faceValueLineSchema = z.object({
     if (!FACE_VALUE_CLASS_IDS.includes(t)) ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, message: `unknown coin class "${t.slice(0, 40)}"` });
   }),
   faceValue: decimalField({ positive: true, max: '1000000', maxMessage: 'must be at most 1000000 face' }),
-  basis: z.enum(['common-practice', 'mint-weight']).default('common-practice'),
+  /** Left out, the class's counter basis (`FaceValueClass.counterBasis`). */
+  basis: z.enum(FACE_VALUE_BASES, { errorMap: () => ({ message: `basis must be ${FACE_VALUE_BASES.join(' or ')}` }) }).optional(),
   rateOverride: rateRuleSchema.optional(),
   description,
 }).strict();

@@ -1,4 +1,4 @@
-import { coinSpec, faceValueClass } from './coins';
+import { FACE_VALUE_BASIS_LABELS, coinSpec, faceValueBasisFor, faceValueClass, type FaceValueBasis } from './coins';
 import {
   EXACT_HUNDRED,
   EXACT_ZERO,
@@ -78,7 +78,15 @@ export interface PricedLine extends LineBase {
   readonly margin: Money;
   readonly marginPercentOfMelt: string | null;
   readonly coin?: { readonly coinType: string; readonly count: number; readonly label: string };
-  readonly faceValue?: { readonly coinClass: string; readonly faceValue: string; readonly basis: string; readonly label: string };
+  readonly faceValue?: {
+    readonly coinClass: string;
+    readonly faceValue: string;
+    /** The basis that priced the line, and how it reads: "mint weight", "circulated, common practice". */
+    readonly basis: FaceValueBasis;
+    readonly basisLabel: string;
+    readonly troyOuncesPerDollarFace: string;
+    readonly label: string;
+  };
   readonly notes: readonly string[];
 }
 
@@ -252,7 +260,16 @@ function priceLine(line: ValidQuoteLine, index: number, ctx: QuoteContext): Line
   body.marginPercentOfMelt = percentOfMinor(marginMinor, meltMinor);
   if (line.kind === 'coin') body.coin = Object.freeze({ coinType: line.coinType, count: line.count, label: coinSpec(line.coinType)!.label });
   if (line.kind === 'face-value') {
-    body.faceValue = Object.freeze({ coinClass: line.coinClass, faceValue: line.faceValue, basis: line.basis, label: faceValueClass(line.coinClass)!.label });
+    const cls = faceValueClass(line.coinClass)!;
+    const basis = faceValueBasisFor(cls, line.basis);
+    body.faceValue = Object.freeze({
+      coinClass: line.coinClass,
+      faceValue: line.faceValue,
+      basis,
+      basisLabel: FACE_VALUE_BASIS_LABELS[basis],
+      troyOuncesPerDollarFace: cls.troyOuncesPerDollarFace[basis]!,
+      label: cls.label,
+    });
   }
   body.notes = Object.freeze(r.notes);
   return { body, metal: r.metal, meltMinor, payoutMinor, fineOzt: { n, d, dKey: denominatorKey(d) } };

@@ -1,4 +1,4 @@
-import { coinSpec, faceValueClass } from './coins';
+import { FACE_VALUE_BASIS_LABELS, coinSpec, faceValueBases, faceValueBasisFor, faceValueClass } from './coins';
 import {
   EXACT_ONE,
   EXACT_ZERO,
@@ -247,9 +247,10 @@ function resolveCoinLine(line: ValidCoinLine, index: number, quote: QuoteContext
 
 function resolveFaceValueLine(line: ValidFaceValueLine, index: number, quote: QuoteContext, issues: Issue[] | null): LineResolution {
   const cls = faceValueClass(line.coinClass)!;
-  const perDollar = cls.troyOuncesPerDollarFace[line.basis];
+  const basis = faceValueBasisFor(cls, line.basis);
+  const perDollar = cls.troyOuncesPerDollarFace[basis];
   if (perDollar === undefined) {
-    issues?.push({ path: ['lines', index, 'basis'], message: `${line.coinClass} has no ${line.basis} figure; use ${Object.keys(cls.troyOuncesPerDollarFace).join(' or ')}` });
+    issues?.push({ path: ['lines', index, 'basis'], message: `${line.coinClass} has no ${basis} figure; use ${faceValueBases(cls).join(' or ')}` });
     return { status: 'invalid' };
   }
   const face = exact(line.faceValue);
@@ -265,9 +266,7 @@ function resolveFaceValueLine(line: ValidFaceValueLine, index: number, quote: Qu
     paidOn: fineness,
     paidOnExact: cls.fineness,
     finenessSource: 'face-value',
-    notes: [
-      `${line.faceValue} face x ${perDollar} ozt per 1.00 face (${line.basis === 'common-practice' ? 'common practice for circulated coin' : 'mint weight'}).`,
-    ],
+    notes: [`${line.faceValue} face x ${perDollar} ozt per 1.00 face (${FACE_VALUE_BASIS_LABELS[basis]}; ${cls.basisSources[basis]}).`],
   });
 }
 

@@ -170,6 +170,7 @@ function drawLine(doc: PDFKit.PDFDocument, line: ReceiptLine, barcodes: Map<stri
     ['Metal', line.metal],
     ['Weight', line.grossWeight || line.netWeight ? `gross ${line.grossWeight ?? '-'}, net ${line.netWeight ?? '-'}` : null],
     ['Fineness paid on', line.fineness],
+    ['Counted', line.basis],
     ['Fine weight', line.fineWeightGrams ? `${line.fineWeightGrams} (${line.fineWeightTroyOunces ?? '-'})` : null],
     ['Priced at', [line.spotPerTroyOunce ? `spot ${line.spotPerTroyOunce}` : null, line.rate ? `rate ${line.rate}` : null].filter(Boolean).join('; ') || null],
   ];

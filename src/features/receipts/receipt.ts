@@ -1,6 +1,7 @@
 import { TEST_METHOD_LABELS } from '@/features/counter/counter';
 import { offerPercentages } from '@/features/counter/ticket-pricing';
 import { Dec } from '@/features/pricing/decimal';
+import { faceValueBasisText } from '@/features/pricing/coins';
 import { METAL_LABELS, isMetal } from '@/features/pricing/metals';
 import { CURRENCY_CODES, currencyExponent, formatMinor, type CurrencyCode } from '@/features/pricing/money';
 import { ID_TYPE_LABELS, maskIdNumber } from '@/features/sellers/sellers';
@@ -99,6 +100,8 @@ export interface ReceiptLine {
   fineWeightTroyOunces: string | null;
   spotPerTroyOunce: string | null;
   rate: string | null;
+  /** For coin counted by face value: the face value and the basis that priced it. */
+  basis: string | null;
   meltValue: string;
   payout: string;
   margin: string;
@@ -299,6 +302,7 @@ function buildLine(l: ReceiptSourceLine, currency: CurrencyCode, locale: string)
     fineWeightTroyOunces: l.fineWeightTroyOunces ? `${decimalWithMinPlaces(l.fineWeightTroyOunces, 3)} ozt` : null,
     spotPerTroyOunce: l.spotPerTroyOunce ? `${priceOf(l.spotPerTroyOunce, currency, locale)} per ozt` : null,
     rate: l.rateLabel,
+    basis: faceValueBasisOf(item),
     meltValue: money(l.meltValueMinor),
     payout: money(l.payoutMinor),
     margin: money(l.marginMinor),
@@ -308,6 +312,13 @@ function buildLine(l: ReceiptSourceLine, currency: CurrencyCode, locale: string)
     tagNumber: l.tagNumber,
     holdUntil: l.holdUntil ? formatCalendarDay(l.holdUntil, locale) : null,
   };
+}
+
+/** "10.00 face at 0.2958 ozt per 1.00 face, mint weight": the basis the saved line was priced on. */
+function faceValueBasisOf(item: Record<string, unknown>): string | null {
+  if (item.kind !== 'face-value' || typeof item.coinClass !== 'string' || typeof item.faceValue !== 'string') return null;
+  const text = faceValueBasisText(item.coinClass, typeof item.basis === 'string' ? item.basis : undefined);
+  return text ? `${item.faceValue} face at ${text}` : null;
 }
 
 function itemOf(input: unknown): Record<string, unknown> {
@@ -452,6 +463,7 @@ export function receiptPlainText(model: ReceiptModel): string {
       ['Metal', l.metal],
       ['Weight', l.grossWeight || l.netWeight ? `gross ${l.grossWeight ?? '-'}, net ${l.netWeight ?? '-'}` : null],
       ['Fineness paid on', l.fineness],
+      ['Counted', l.basis],
       ['Fine weight', l.fineWeightGrams ? `${l.fineWeightGrams} (${l.fineWeightTroyOunces ?? '-'})` : null],
       ['Spot', l.spotPerTroyOunce],
       ['Rate', l.rate],

@@ -1,27 +1,25 @@
-import { and, eq, lt } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import type Stripe from 'stripe';
-import { payments, providerEvents, sellerPayoutAccounts, sellers, stores, tickets } from '@/db/schema';
+import { payments, sellerPayoutAccounts, sellers, stores, tickets } from '@/db/schema';
 import type { Db, DbOrTx } from '@/db/client';
 import { recordAudit } from '@/features/audit/audit.server';
 import type { SessionUser } from '@/features/auth/users.server';
-import { markPaid, getTicketUnscoped, requireNoLivePayout } from '@/features/counter/tickets.server';
-import { canTransition, ticketReference } from '@/features/counter/counter';
+import { requireNoLivePayout } from '@/features/counter/tickets.server';
+import { canTransition } from '@/features/counter/counter';
 import { enqueueMail } from '@/features/mail/outbox.server';
-import { onboardingLinkMail, payoutConfirmationMail } from '@/features/mail/templates';
-import { moneyOf, type CurrencyCode } from '@/features/pricing/money';
+import { onboardingLinkMail } from '@/features/mail/templates';
+import { idempotencyKeys } from '@/features/payouts/payouts';
+import { sendToProvider } from '@/features/payouts/sending.server';
 import { AppError } from '@/lib/errors';
-import { paymentProvider, webhookSecret } from './provider.server';
+import { paymentProvider } from './provider.server';
+
+export { idempotencyKeys } from '@/features/payouts/payouts';
+export { applyPayoutOutcome } from '@/features/payouts/outcome.server';
+export { reconcilePendingPayments, retryDueSends, sendToProvider } from '@/features/payouts/sending.server';
 
 function appUrl(): string {
   return process.env.APP_URL ?? 'http://127.0.0.1:4321';
 }
-
-/** Idempotency keys come from Cupel's own records, so any retry of the same step asks the provider for the same thing. */
-export const idempotencyKeys = {
-  account: (sellerId: string) => `cupel-account-${sellerId}`,
-  transfer: (paymentId: string) => `cupel-transfer-${paymentId}`,
-  payout: (paymentId: string) => `cupel-payout-${paymentId}`,
-};
 
 function providerError(err: unknown): AppError {
   const e = err as { type?: string; message?: string; statusCode?: number; code?: string };
@@ -132,8 +130,10 @@ export async function refreshPayoutAccount(db: Db, sellerId: string) {
 /**
  * Pays an accepted ticket to the seller's payout account. The payment row is written first (a
  * partial unique index allows one live payout per ticket), then the provider is asked for the
- * transfer and the payout with keys derived from that row. A double click, two tabs, a retry after a
- * time-out or a restart all land on the same row and the same keys, so the seller is paid once.
+ * transfer and the payout with keys derived from that row, by whoever holds the row's send lease.
+ * A double click, two tabs, a retry after a time-out or a restart all land on the same row and the
+ * same keys, so the seller is paid once. An answer that settles nothing leaves the payment pending
+ * (returned as such, with the last error); the worker sends it again.
  */
 export async function payElectronically(db: Db, actor: SessionUser, ticketId: string, options: { speed?: 'standard' | 'instant' } = {}) {
   const payment = await db.transaction(async (tx) => {
@@ -170,153 +170,4 @@ export async function payElectronically(db: Db, actor: SessionUser, ticketId: st
     return created!;
   });
   return sendToProvider(db, payment.id);
-}
-
-/** The provider steps of a pending payment; safe to run again at any point, which is how retries and reconciliation work. */
-export async function sendToProvider(db: Db, paymentId: string) {
-  const [payment] = await db.select().from(payments).where(eq(payments.id, paymentId));
-  if (!payment || payment.state !== 'pending' || payment.method !== 'electronic') return payment ?? null;
-  const provider = paymentProvider();
-  const currency = payment.currency.toLowerCase();
-  try {
-    const transfer = await provider.transfers.create(
-      { amount: payment.amountMinor, currency, destination: payment.providerAccountId!, metadata: { cupel_payment_id: payment.id, cupel_ticket_id: payment.ticketId } },
-      { idempotencyKey: idempotencyKeys.transfer(payment.id) },
-    );
-    const payout = await provider.payouts.create(
-      { amount: payment.amountMinor, currency, method: payment.payoutSpeed ?? 'standard', metadata: { cupel_payment_id: payment.id, cupel_ticket_id: payment.ticketId } },
-      { stripeAccount: payment.providerAccountId!, idempotencyKey: idempotencyKeys.payout(payment.id) },
-    );
-    await db.transaction(async (tx) => {
-      await tx.update(payments).set({ providerTransferId: transfer.id, providerPayoutId: payout.id }).where(and(eq(payments.id, payment.id), eq(payments.state, 'pending')));
-      await recordAudit(tx, { storeId: payment.storeId, actorUserId: null, action: 'payment.electronic-sent', entity: 'ticket', entityId: payment.ticketId, after: { paymentId: payment.id, transferId: transfer.id, payoutId: payout.id } });
-    });
-    if (payout.status === 'paid' || payout.status === 'failed') await applyPayoutOutcome(db, payout);
-  } catch (err) {
-    const e = err as { type?: string; statusCode?: number };
-    const transient = e?.type === 'StripeConnectionError' || e?.type === 'StripeAPIError' || (e?.statusCode ?? 0) >= 500;
-    if (!transient) {
-      await failPayment(db, payment.id, `The payment provider refused: ${(err as Error).message}`);
-      throw providerError(err);
-    }
-    // Left pending: the same request again, or the reconciliation job, completes it with the same keys.
-    await db.transaction(async (tx) => {
-      await recordAudit(tx, { storeId: payment.storeId, actorUserId: null, action: 'payment.electronic-retry-needed', entity: 'ticket', entityId: payment.ticketId, after: { paymentId: payment.id, error: String((err as Error).message).slice(0, 300) } });
-    });
-    throw providerError(err);
-  }
-  const [fresh] = await db.select().from(payments).where(eq(payments.id, payment.id));
-  return fresh!;
-}
-
-async function failPayment(db: DbOrTx, paymentId: string, reason: string) {
-  // On a transaction this runs as a savepoint, on the pool as its own transaction.
-  await db.transaction(async (tx) => {
-    const [p] = await tx.select().from(payments).where(eq(payments.id, paymentId)).for('update');
-    if (!p || p.state !== 'pending') return;
-    await tx.update(payments).set({ state: 'failed', failureReason: reason.slice(0, 500) }).where(eq(payments.id, paymentId));
-    await recordAudit(tx, { storeId: p.storeId, actorUserId: null, action: 'payment.electronic-failed', entity: 'ticket', entityId: p.ticketId, after: { paymentId, reason } });
-  });
-}
-
-/** The provider says a payout is paid or failed: a paid one completes the ticket; a failed one leaves it awaiting payment, with the reason. */
-export async function applyPayoutOutcome(db: Db, payout: Stripe.Payout): Promise<'paid' | 'failed' | 'ignored'> {
-  return db.transaction(async (tx) => {
-    const [payment] = await tx
-      .select()
-      .from(payments)
-      .where(payout.metadata?.cupel_payment_id ? eq(payments.id, payout.metadata.cupel_payment_id) : eq(payments.providerPayoutId, payout.id))
-      .for('update');
-    if (!payment || payment.state !== 'pending') return 'ignored';
-    if (payout.status === 'paid') {
-      await tx.update(payments).set({ state: 'completed', providerPayoutId: payout.id }).where(eq(payments.id, payment.id));
-      const [ticket] = await tx.select().from(tickets).where(eq(tickets.id, payment.ticketId)).for('update');
-      if (ticket && ticket.state === 'accepted') {
-        await markPaid(tx, ticket, null, { method: 'electronic', paymentId: payment.id });
-        const view = await getTicketUnscoped(tx, ticket.id);
-        const account = await payoutAccountOf(tx, ticket.sellerId);
-        if (view.seller.email) {
-          await enqueueMail(tx, {
-            storeId: ticket.storeId,
-            kind: 'payout-confirmation',
-            to: view.seller.email,
-            ...payoutConfirmationMail({
-              storeName: view.store.name,
-              reference: ticketReference(view.store.code, view.number),
-              amount: moneyOf(payment.amountMinor, payment.currency as CurrencyCode).formatted,
-              destination: account?.externalAccountLast4 ? `your ${account.externalAccountLabel ?? 'account'} ending ${account.externalAccountLast4}` : 'your payout account',
-            }),
-          });
-        }
-      }
-      return 'paid';
-    }
-    if (payout.status === 'failed' || payout.status === 'canceled') {
-      await failPayment(tx, payment.id, payout.failure_message ?? `Payout ${payout.status}${payout.failure_code ? ` (${payout.failure_code})` : ''}`);
-      return 'failed';
-    }
-    return 'ignored';
-  });
-}
-
-// ---------------------------------------------------------------------------
-// Webhooks and reconciliation
-// ---------------------------------------------------------------------------
-
-/** Verifies and applies one webhook delivery. A bad signature is refused; an event seen before changes nothing. */
-export async function handleWebhook(db: Db, rawBody: string, signature: string | null): Promise<{ status: 'applied' | 'duplicate' | 'ignored'; type: string }> {
-  let event: Stripe.Event;
-  try {
-    event = paymentProvider().webhooks.constructEvent(rawBody, signature ?? '', webhookSecret());
-  } catch {
-    throw new AppError(400, 'Webhook signature does not verify', [{ path: 'stripe-signature', message: 'invalid signature' }]);
-  }
-  const [fresh] = await db.insert(providerEvents).values({ eventId: event.id, type: event.type }).onConflictDoNothing().returning({ id: providerEvents.eventId });
-  if (!fresh) return { status: 'duplicate', type: event.type };
-  try {
-    switch (event.type) {
-      case 'payout.paid':
-      case 'payout.failed':
-        await applyPayoutOutcome(db, event.data.object as Stripe.Payout);
-        return { status: 'applied', type: event.type };
-      case 'account.updated':
-        await syncPayoutAccount(db, event.data.object as Stripe.Account);
-        return { status: 'applied', type: event.type };
-      default:
-        return { status: 'ignored', type: event.type };
-    }
-  } catch (err) {
-    // Forget the event so the provider's retry is applied.
-    await db.delete(providerEvents).where(eq(providerEvents.eventId, event.id));
-    throw err;
-  }
-}
-
-/**
- * Asks the provider about payments pending longer than `olderThanMs`: one never sent (a crash
- * before the provider call) is sent with its keys; one sent is looked up and its outcome applied.
- */
-export async function reconcilePendingPayments(db: Db, options: { olderThanMs?: number; now?: Date; limit?: number } = {}) {
-  const now = options.now ?? new Date();
-  const before = new Date(now.getTime() - (options.olderThanMs ?? 5 * 60_000));
-  const pending = await db
-    .select()
-    .from(payments)
-    .where(and(eq(payments.state, 'pending'), eq(payments.method, 'electronic'), lt(payments.createdAt, before)))
-    .limit(options.limit ?? 50);
-  const outcomes: { paymentId: string; outcome: string }[] = [];
-  for (const p of pending) {
-    try {
-      if (!p.providerPayoutId) {
-        const after = await sendToProvider(db, p.id);
-        outcomes.push({ paymentId: p.id, outcome: after?.state ?? 'missing' });
-      } else {
-        const payout = await paymentProvider().payouts.retrieve(p.providerPayoutId, {}, { stripeAccount: p.providerAccountId! });
-        outcomes.push({ paymentId: p.id, outcome: await applyPayoutOutcome(db, payout) });
-      }
-    } catch (err) {
-      outcomes.push({ paymentId: p.id, outcome: `error: ${(err as Error).message}` });
-    }
-  }
-  return outcomes;
 }

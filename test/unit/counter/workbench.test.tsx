@@ -106,6 +106,36 @@ describe('the grading island', () => {
     expect(screen.getByTestId('total-payout').textContent).toBe(expected.totals.payout.formatted);
   });
 
+  it('prices 40% halves by face value on mint weight and says so on the line', async () => {
+    const user = userEvent.setup();
+    render(<TicketWorkbench initial={initial()} />);
+    await user.click(screen.getByRole('button', { name: 'Remove line 1' }));
+    await user.click(screen.getByRole('button', { name: 'Add coin by face value' }));
+    const line = within(screen.getByTestId('line-1'));
+    await user.selectOptions(line.getByLabelText('Coin class'), 'us-40');
+    await user.type(line.getByLabelText('Face value'), '10.00');
+    const expected = priceQuote({ currency: 'USD', spot: { silver: '30.0000' }, lines: [{ kind: 'face-value', coinClass: 'us-40', faceValue: '10.00', basis: 'mint-weight' }] });
+    expect(screen.getByTestId('line-1-figures').textContent).toContain(expected.totals.payout.formatted);
+    expect(screen.getByTestId('total-payout').textContent).toBe(expected.totals.payout.formatted);
+    expect(screen.getByTestId('line-1-basis').textContent).toMatch(/mint weight/);
+  });
+
+  it('prices 90% coin by face value as circulated by default, and on mint weight when the clerk chooses it', async () => {
+    const user = userEvent.setup();
+    render(<TicketWorkbench initial={initial()} />);
+    await user.click(screen.getByRole('button', { name: 'Remove line 1' }));
+    await user.click(screen.getByRole('button', { name: 'Add coin by face value' }));
+    const line = within(screen.getByTestId('line-1'));
+    await user.type(line.getByLabelText('Face value'), '10.00');
+    const price = (basis: string) =>
+      priceQuote({ currency: 'USD', spot: { silver: '30.0000' }, lines: [{ kind: 'face-value', coinClass: 'us-90', faceValue: '10.00', basis }] }).totals.payout.formatted;
+    expect(screen.getByTestId('total-payout').textContent).toBe(price('common-practice'));
+    expect(screen.getByTestId('line-1-basis').textContent).toMatch(/circulated, common practice/);
+    await user.selectOptions(line.getByLabelText('Counted at'), 'mint-weight');
+    expect(screen.getByTestId('total-payout').textContent).toBe(price('mint-weight'));
+    expect(screen.getByTestId('line-1-basis').textContent).toMatch(/mint weight/);
+  });
+
   it('shows a mark that fits two metals as needing a test, never as a price', async () => {
     const user = userEvent.setup();
     render(<TicketWorkbench initial={initial()} />);

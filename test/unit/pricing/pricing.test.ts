@@ -154,7 +154,8 @@ describe('coins, face value and fine weight', () => {
   it('pays zero when the amount under spot equals spot, and refuses one above spot', () => {
     const at = priceQuote(quote([{ kind: 'coin', coinType: 'us-1oz-silver-bullion', count: 1 }], { rateOverride: { basis: 'under-spot', amountPerTroyOunce: '30.00' } }));
     expect(priced(at).payout.amountMinor).toBe(0);
-    expect(priced(at).margin.amountMinor).toBe(3000);
+    // 31 U.S.C. 5112(e) (from memory): 31.103 g of .999 silver holds 0.999 ozt; 0.999 x 30.00 = 29.97
+    expect(priced(at).margin.amountMinor).toBe(2997);
     const issues = issuesOf(quote([{ kind: 'coin', coinType: 'us-1oz-silver-bullion', count: 1, rateOverride: { basis: 'under-spot', amountPerTroyOunce: '31' } }]));
     expect(issues).toEqual([{ path: 'lines.0.rateOverride.amountPerTroyOunce', message: expect.stringMatching(/more than the silver spot/) }]);
   });

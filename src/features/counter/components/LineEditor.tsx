@@ -1,6 +1,6 @@
 import { memo } from 'react';
 import { parseMark } from '@/features/pricing/marks';
-import { COIN_CATALOGUE, FACE_VALUE_CLASSES } from '@/features/pricing/coins';
+import { COIN_CATALOGUE, FACE_VALUE_CLASSES, coinSpec, faceValueBases, faceValueClass, type FaceValueBasis } from '@/features/pricing/coins';
 import { LINE_CATEGORIES } from '@/features/pricing/rates';
 import { METALS, METAL_LABELS } from '@/features/pricing/metals';
 import { TEST_METHOD_LABELS } from '../counter';
@@ -12,7 +12,8 @@ interface Props {
   onChange: (key: string, patch: Partial<GradingLine>) => void;
   onRemove: (key: string) => void;
   disabled: boolean;
-  summary: { payout: string | null; melt: string | null; problem: string | null; fineWeight: string | null };
+  /** `basis`: for face value, how the line was counted ("0.715 ozt per 1.00 face, circulated, common practice"). */
+  summary: { payout: string | null; melt: string | null; problem: string | null; fineWeight: string | null; basis?: string | null };
 }
 
 const CATEGORY_LABELS: Record<string, string> = {
@@ -25,11 +26,27 @@ const CATEGORY_LABELS: Record<string, string> = {
   bullion: 'Bullion',
 };
 
+/** The coin list grouped by issuer, in catalogue order. */
+const COINS_BY_ISSUER: [string, (typeof COIN_CATALOGUE)[number][]][] = [];
+for (const c of COIN_CATALOGUE) {
+  const group = COINS_BY_ISSUER.find(([issuer]) => issuer === c.issuer);
+  if (group) group[1].push(c);
+  else COINS_BY_ISSUER.push([c.issuer, [c]]);
+}
+
+const BASIS_CHOICES: Record<FaceValueBasis, string> = {
+  'common-practice': 'Circulated (common practice)',
+  'mint-weight': 'Mint weight (uncirculated)',
+};
+
 /** One graded item. Field order follows the clerk's work: what it is, its mark, the test, the scale. */
 function LineEditorImpl({ index, line, onChange, onRemove, disabled, summary }: Props) {
   const id = (f: string) => `l${index}-${f}`;
   const set = (patch: Partial<GradingLine>) => onChange(line.key, patch);
   const reading = line.kind === 'weight' && line.mark.trim() ? parseMark(line.mark) : null;
+  const faceClass = line.kind === 'face-value' ? faceValueClass(line.coinClass) : undefined;
+  const faceBases = faceClass ? faceValueBases(faceClass) : [];
+  const coinNote = line.kind === 'coin' ? coinSpec(line.coinType)?.note : line.kind === 'face-value' ? faceClass?.note : undefined;
 
   return (
     <fieldset className="rounded-lg border border-ink-200 bg-white p-4" data-testid={`line-${index + 1}`} disabled={disabled}>
@@ -98,10 +115,14 @@ function LineEditorImpl({ index, line, onChange, onRemove, disabled, summary }: 
                 Coin or bullion type
               </label>
               <select id={id('coin')} className="field-input" value={line.coinType} onChange={(e) => set({ coinType: e.target.value })}>
-                {COIN_CATALOGUE.map((c) => (
-                  <option key={c.coinType} value={c.coinType}>
-                    {c.label}
-                  </option>
+                {COINS_BY_ISSUER.map(([issuer, coins]) => (
+                  <optgroup key={issuer} label={issuer}>
+                    {coins.map((c) => (
+                      <option key={c.coinType} value={c.coinType}>
+                        {c.label}
+                      </option>
+                    ))}
+                  </optgroup>
                 ))}
               </select>
             </div>
@@ -133,7 +154,26 @@ function LineEditorImpl({ index, line, onChange, onRemove, disabled, summary }: 
               </label>
               <input id={id('face')} className="field-input" inputMode="decimal" placeholder="5.00" value={line.faceValue} onChange={(e) => set({ faceValue: e.target.value })} />
             </div>
+            {faceBases.length > 1 && (
+              <div className="md:col-span-2">
+                <label className="field-label" htmlFor={id('basis')}>
+                  Counted at
+                </label>
+                <select id={id('basis')} className="field-input" value={line.faceBasis || faceBases[0]} onChange={(e) => set({ faceBasis: e.target.value as GradingLine['faceBasis'] })}>
+                  {faceBases.map((b) => (
+                    <option key={b} value={b}>
+                      {BASIS_CHOICES[b]}
+                    </option>
+                  ))}
+                </select>
+              </div>
+            )}
           </>
+        )}
+        {coinNote && (
+          <p className="text-sm text-ink-600 md:col-span-6" data-testid={`line-${index + 1}-coin-note`}>
+            {coinNote}
+          </p>
         )}
       </div>
 
@@ -248,6 +288,7 @@ function LineEditorImpl({ index, line, onChange, onRemove, disabled, summary }: 
         ) : (
           <>
             Fine weight <strong>{summary.fineWeight}</strong> · melt <strong>{summary.melt}</strong> · pays <strong>{summary.payout}</strong>
+            {summary.basis && <span data-testid={`line-${index + 1}-basis`}> · counted at {summary.basis}</span>}
           </>
         )}
       </p>

@@ -7,7 +7,7 @@ import type { PricedLine } from '@/features/pricing/pricing';
 import type { Metal } from '@/features/pricing/metals';
 import { ACID_TEST_CAUTIONS, displaySpot } from '../counter';
 import { fromCounterLine, newGradingLine, toCounterLine, type GradingLine } from '../grading';
-import { offerPercentages, priceTicket } from '../ticket-pricing';
+import { faceValueBasisLine, offerPercentages, priceTicket } from '../ticket-pricing';
 import type { WorkbenchData } from '../workbench.server';
 import { LineEditor } from './LineEditor';
 import { SignaturePad } from './SignaturePad';
@@ -194,6 +194,7 @@ export default function TicketWorkbench({ initial }: Props) {
                 melt: live.perLine[i]!.result ? live.perLine[i]!.result!.meltValue.formatted : null,
                 payout: live.perLine[i]!.result ? live.perLine[i]!.result!.payout.formatted : null,
                 fineWeight: live.perLine[i]!.result ? showWeight(live.perLine[i]!.result!.fineWeightGrams, showUnit) : null,
+                basis: faceValueBasisLine(live.perLine[i]!.result),
               }}
             />
           </div>
@@ -395,6 +396,11 @@ export default function TicketWorkbench({ initial }: Props) {
               {pendingPayout ? (
                 <p role="status" className="rounded-md bg-amber-50 p-2 font-semibold text-amber-900" data-testid="payout-pending">
                   Electronic payout of {fmt(pendingPayout.amountMinor)} on its way; waiting for the payment provider to confirm.
+                  {pendingPayout.lastError && (
+                    <span className="mt-1 block text-sm font-normal">
+                      The provider has not answered the last try yet ({pendingPayout.lastError}). Cupel asks again with the same request, so the seller is paid once; do not pay another way.
+                    </span>
+                  )}
                 </p>
               ) : (
                 <>
@@ -502,6 +508,13 @@ export default function TicketWorkbench({ initial }: Props) {
             </div>
           )}
           {d.ticket.state === 'voided' && <p className="font-semibold text-red-800">Voided: {d.ticket.voidReason}</p>}
+          {d.ticket.payments
+            .filter((p) => p.kind === 'reversal' && p.state === 'pending')
+            .map((p) => (
+              <p key={p.id} role="status" className="rounded-md bg-amber-50 p-2 text-sm font-semibold text-amber-900" data-testid="reversal-pending">
+                Reversal of {fmt(p.amountMinor)} pending: not returned until the payment provider confirms it or a manager records the recovery on the review page.
+              </p>
+            ))}
         </section>
       </aside>
     </div>
