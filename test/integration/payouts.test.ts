@@ -5,6 +5,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import { auditLog, outboxMessages, paymentExceptions, payments, providerEvents, tickets } from '@/db/schema';
 import { createPaymentsFake, type PaymentsFake } from '../../fakes/payments/app';
 import { signatureHeader } from '../../fakes/payments/webhooks';
+import { recordAudit } from '@/features/audit/audit.server';
 import { getTicket, voidTicket } from '@/features/counter/tickets.server';
 import { openPaymentExceptions } from '@/features/payouts/exceptions.server';
 import { applyDueEvents, handleWebhook, storeEvent, verifyWebhook } from '@/features/payouts/inbox.server';
@@ -112,7 +113,11 @@ describe('voiding a ticket while money moves', () => {
     const t = await acceptedTicket(db, w);
     const payment = await payElectronically(db, w.clerk, t.id);
     // The ticket is voided behind the payout's back, as the code allowed before this rule or a hand edit in the database would.
-    await db.update(tickets).set({ state: 'voided', voidedAt: new Date(), voidedBy: w.manager.id, voidReason: 'voided while the payout was on its way' }).where(eq(tickets.id, t.id));
+    // Even a hand edit must come with its audit row: the database refuses a change to a record on file without one.
+    await db.transaction(async (tx) => {
+      await tx.update(tickets).set({ state: 'voided', voidedAt: new Date(), voidedBy: w.manager.id, voidReason: 'voided while the payout was on its way' }).where(eq(tickets.id, t.id));
+      await recordAudit(tx, { storeId: w.storeId, actorUserId: w.manager.id, action: 'ticket.void', entity: 'ticket', entityId: t.id, before: { state: 'accepted' }, after: { state: 'voided' } });
+    });
     fake.settlePayout(payment!.providerPayoutId!, 'paid');
     const [exception] = await until('the exception to be raised', async () => {
       const rows = await db.select().from(paymentExceptions).where(eq(paymentExceptions.ticketId, t.id));

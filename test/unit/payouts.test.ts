@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import Stripe from 'stripe';
 import { classifyProviderError, idempotencyKeys, nextSendDelayMs, sendLeaseMs } from '@/features/payouts/payouts';
 
-const raw = (statusCode: number, type: string, code?: string) => ({ statusCode, type, code, message: `${type} ${code ?? ''}` });
+type RawErrorType = NonNullable<ConstructorParameters<typeof Stripe.errors.StripeAPIError>[0]>['type'];
+const raw = (statusCode: number, type: RawErrorType, code?: string) => ({ statusCode, type, code, message: `${type} ${code ?? ''}` });
 
 describe('which provider answers settle a payment', () => {
   it('a refusal by the provider (400 with a business code, 402, 404) may fail the payment', () => {

@@ -40,7 +40,11 @@ export async function sendToProvider(db: Db, paymentId: string): Promise<Payment
     );
     transferId = transfer.id;
     if (payment.providerTransferId !== transfer.id) {
-      await db.update(payments).set({ providerTransferId: transfer.id }).where(eq(payments.id, payment.id));
+      // The transfer id is part of the payment's record: stored with its audit row, in one transaction.
+      await db.transaction(async (tx) => {
+        await tx.update(payments).set({ providerTransferId: transfer.id }).where(eq(payments.id, payment.id));
+        await recordAudit(tx, { storeId: payment.storeId, actorUserId: null, action: 'payment.transfer-recorded', entity: 'ticket', entityId: payment.ticketId, after: { paymentId: payment.id, transferId: transfer.id, attempt: payment.sendAttempts } });
+      });
     }
     step = 'payout';
     const payout = await provider.payouts.create(

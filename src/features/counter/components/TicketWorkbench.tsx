@@ -12,9 +12,12 @@ import type { WorkbenchData } from '../workbench.server';
 import { LineEditor } from './LineEditor';
 import { SignaturePad } from './SignaturePad';
 import { PhotoStrip } from '@/features/photos/components/PhotoStrip';
+import { ScaleControl } from '@/features/scale/components/ScaleControl';
 
 interface Props {
   initial: WorkbenchData;
+  /** Offered only when the server is configured with a simulated scale (tests, the local demo). */
+  simulatedScaleUrl?: string | null;
 }
 
 const SHOW_UNITS: { unit: WeightUnit; label: string }[] = [
@@ -51,7 +54,7 @@ export function useLivePricing(lines: GradingLine[], data: WorkbenchData, ticket
   }, [lines, data, ticketRaisePoints]);
 }
 
-export default function TicketWorkbench({ initial }: Props) {
+export default function TicketWorkbench({ initial, simulatedScaleUrl = null }: Props) {
   const { data, mutate } = useSWR<WorkbenchData>(`/api/tickets/${initial.ticket.id}/workbench`, (u: string) => fetchJson<WorkbenchData>(u), {
     fallbackData: initial,
     revalidateOnFocus: true,
@@ -181,8 +184,9 @@ export default function TicketWorkbench({ initial }: Props) {
             <kbd className="rounded border px-1">Alt</kbd>+<kbd className="rounded border px-1">S</kbd> save
           </p>
         </div>
+        {editable && <ScaleControl lines={lines} onTake={change} disabled={!!busy} simulatedScaleUrl={simulatedScaleUrl} />}
         {lines.map((line, i) => (
-          <div key={line.key} id={`wrap-${line.key}`}>
+          <div key={line.key} id={`wrap-${line.key}`} data-line-index={i}>
             <LineEditor
               index={i}
               line={line}
