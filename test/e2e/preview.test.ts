@@ -40,6 +40,34 @@ describe('POST /api/quotes/preview over HTTP', () => {
     expect(notJson.status()).toBe(400);
   });
 
+  it('never prices a mark as another metal: AG 990 and S990 are silver, 750 silver, 14K silver and 925 gold are held for a test', async () => {
+    const clerk = await makeUser(db, { role: 'clerk' });
+    const page = await newPage();
+    await signInThroughForm(page, clerk.email, FACTORY_PASSWORD);
+    await page.waitForURL('**/counter');
+    const marks = ['AG 990', 'S990', '750 silver', '14K silver', '925 gold', 'PT 585'];
+    const res = await page.request.post('/api/quotes/preview', {
+      data: { spot: { gold: '2400.00', silver: '30.00', platinum: '950.00' }, lines: marks.map((mark) => ({ kind: 'weight', mark, grossWeight: { value: '10', unit: 'g' } })) },
+      headers: { origin: BASE_URL },
+    });
+    expect(res.status()).toBe(200);
+    const quote = (await res.json()) as ReturnType<typeof priceQuote>;
+    const shown = quote.lines.map((l) => [l.status, l.status === 'priced' ? l.metal : null, l.status === 'priced' ? l.payout.decimal : null]);
+    // Before the fix: AG 990 and S990 paid 626.40 as gold, 750 silver 474.55 as 18K, 14K silver 360.09 as gold, 925 gold 6.25 as silver.
+    expect(shown).toEqual([
+      ['priced', 'silver', '6.68'],
+      ['priced', 'silver', '6.68'],
+      ['needs-test', null, null],
+      ['needs-test', null, null],
+      ['needs-test', null, null],
+      ['needs-test', null, null],
+    ]);
+    expect(quote.totals.payout.decimal).toBe('13.36');
+    const held = quote.lines[2]!;
+    expect(held.status === 'needs-test' && held.message).toBe('The mark names silver, but 750 is a fineness of gold, not of silver. Test it before pricing.');
+    expect(held.mark!.candidates.map((c) => c.metal)).toEqual(['gold']);
+  });
+
   it('answers 401 signed out and 403 to a seller', async () => {
     const anonymous = await newPage();
     expect((await anonymous.request.post('/api/quotes/preview', { data: body, headers: { origin: BASE_URL } })).status()).toBe(401);

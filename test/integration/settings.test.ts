@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { and, eq } from 'drizzle-orm';
-import { auditLog } from '@/db/schema';
+import { readFileSync } from 'node:fs';
+import { and, eq, sql } from 'drizzle-orm';
+import { auditLog, storeSettings } from '@/db/schema';
 import { loadActiveUser } from '@/features/auth/users.server';
 import { getStoreSettings, setStoreSetting } from '@/features/settings/settings.server';
 import { makeStore, makeUser, testDb } from '../support/db';
@@ -43,5 +44,25 @@ describe('store settings', () => {
     await expect(setStoreSetting(db, manager, a.id, 'no.such_key', 1)).rejects.toMatchObject({ status: 422 });
     expect((await getStoreSettings(db, a.id))['hold.period_days']).toBe(10);
     expect(await db.select().from(auditLog).where(eq(auditLog.storeId, a.id))).toHaveLength(0);
+  });
+
+  it('migration 0008 moves saved rates of the old 18K-and-above band and the 800, 833 and 990 keys without changing a price', async () => {
+    const a = await makeStore(db);
+    const old = { basis: 'percent-of-melt', percent: '86' };
+    const own = { basis: 'percent-of-melt', percent: '90' };
+    await db.insert(storeSettings).values([
+      { storeId: a.id, key: 'pricing.rates', valueType: 'json', value: { 'gold-jewelry-18k-and-above': old, 'gold-jewelry-24k': own, 'silver-scrap': old } },
+      { storeId: a.id, key: 'pricing.assumed_fineness', valueType: 'json', value: { '990': '0.985', '800': '0.79', '833': '0.825', '14K': '0.575' } },
+    ]);
+    // Before the migration the schema already reads the old band's rate for its three parts.
+    expect((await getStoreSettings(db, a.id))['pricing.rates']).toEqual({ 'gold-jewelry-18k-to-21k': old, 'gold-jewelry-22k-to-23k': old, 'gold-jewelry-24k': own, 'silver-scrap': old });
+    const file = readFileSync(new URL('../../migrations/0008_split_karat_bands_and_metal_mark_keys.sql', import.meta.url), 'utf8');
+    for (const statement of file.split('--> statement-breakpoint')) await db.execute(sql.raw(statement));
+    const rows = await db.select().from(storeSettings).where(eq(storeSettings.storeId, a.id));
+    const saved = Object.fromEntries(rows.map((r) => [r.key, r.value]));
+    expect(saved['pricing.rates']).toEqual({ 'gold-jewelry-18k-to-21k': old, 'gold-jewelry-22k-to-23k': old, 'gold-jewelry-24k': own, 'silver-scrap': old });
+    expect(saved['pricing.assumed_fineness']).toEqual({ AU990: '0.985', AG800: '0.79', AG833: '0.825', '14K': '0.575' });
+    const s = await getStoreSettings(db, a.id);
+    expect(s['pricing.assumed_fineness']).toEqual({ AU990: '0.985', AG800: '0.79', AG833: '0.825', '14K': '0.575' });
   });
 });

@@ -44,7 +44,9 @@ export {
   markedFinenessOfKey,
   markCandidateByKey,
   MARK_CATALOGUE,
+  RENAMED_MARK_KEYS,
   type MarkReading,
+  type NeedsTestReason,
   type MarkCandidate,
   type MarkKind,
 } from './marks';
@@ -67,6 +69,9 @@ export {
 export {
   DEFAULT_RATES,
   RATE_CATEGORIES,
+  RATE_CATEGORY_LABELS,
+  SPLIT_RATE_CATEGORIES,
+  GOLD_JEWELRY_BANDS,
   LINE_CATEGORIES,
   resolveRateCategory,
   mergeRates,

@@ -1,18 +1,54 @@
-import { parseRatio, ratioValue, toTrimmed } from './decimal';
-import { METAL_LABELS, METAL_SYMBOLS, type Metal } from './metals';
+import { parseRatio, ratioValue } from './decimal';
+import {
+  MAX_KARAT,
+  MIN_KARAT,
+  MARK_CATALOGUE,
+  WORD,
+  candidate,
+  karatCandidate,
+  markCandidateByKey,
+  millesimalCandidate,
+  MILLESIMAL_METALS,
+  type MarkCandidate,
+} from './mark-catalogue';
+import { METAL_LABELS, type Metal } from './metals';
+import {
+  MAX_MARK_LENGTH,
+  NO_PRECIOUS,
+  FILLED,
+  PLATED_SILVER,
+  PLATED_GOLD,
+  PLATED_ANY,
+  FRACTION,
+  KARAT_AFTER,
+  KARAT_BEFORE,
+  PLUMB,
+  PT_WORD,
+  PD_WORD,
+  STERLING_WORD,
+  COIN_WORD,
+  FINE_SILVER,
+  FINE_GOLD,
+  BRITANNIA_WORD,
+  VERMEIL_WORD,
+  NUMBER_TOKEN,
+  SILVER_HINTS,
+  GOLD_HINTS,
+  VOCABULARY,
+  expandTokens,
+  normaliseMark,
+} from './mark-text';
+
+export { normaliseMark } from './mark-text';
+export { MARK_CATALOGUE, MAX_KARAT, MIN_KARAT, RENAMED_MARK_KEYS, markCandidateByKey, type MarkCandidate } from './mark-catalogue';
 
 export type MarkKind = 'solid' | 'filled' | 'plated' | 'no-precious' | 'needs-test' | 'unknown';
 
-export interface MarkCandidate {
-  /** Catalogue key; store settings (assumed fineness) are keyed by it. */
-  readonly key: string;
-  readonly metal: Metal;
-  /** Decimal, 6 places at most ("0.583333"). */
-  readonly fineness: string;
-  /** Exact: "14/24" for karat, "0.925" for millesimal marks. */
-  readonly finenessExact: string;
-  readonly label: string;
-}
+/**
+ * Why a reading needs a test. Only `ambiguous-metal` (a bare number that is a fineness of several
+ * metals) can be settled by the line naming one of them; the others need a tested fineness.
+ */
+export type NeedsTestReason = 'ambiguous-metal' | 'metal-conflict' | 'marks-disagree' | 'fineness-unknown' | 'unqualified-gold';
 
 export interface FilledLayer {
   /** Share of the article's weight that is karat gold, "1/20". */
@@ -32,174 +68,33 @@ export interface MarkReading {
   readonly finenessExact?: string;
   readonly label: string;
   readonly candidates: readonly MarkCandidate[];
+  /** Metals the mark names by a word, a symbol or a karat (AG, SILVER, STERLING, PT, 14K...). */
+  readonly namedMetals: readonly Metal[];
+  readonly reason?: NeedsTestReason;
   readonly notes: readonly string[];
   readonly filled?: FilledLayer;
 }
 
-const MAX_MARK_LENGTH = 200;
-
-function candidate(key: string, metal: Metal, finenessExact: string, label: string): MarkCandidate {
-  return Object.freeze({
-    key,
-    metal,
-    fineness: toTrimmed(ratioValue(parseRatio(finenessExact)), 6),
-    finenessExact,
-    label,
-  });
-}
-
-export const MIN_KARAT = 8;
-export const MAX_KARAT = 24;
-
-/**
- * Millesimal marks and the metals each number is a standard or customary fineness of
- * (Hallmarking Convention / ISO 9202 standard finenesses, plus customary marks: 333, 416/417,
- * 583, 830/833/835, 875, 900, 950 silver, 958, 970). A number listed for more than one metal
- * is never guessed: it is a needs-test reading unless a metal word or symbol goes with it.
- */
-const MILLESIMAL_METALS: Readonly<Record<string, readonly Metal[]>> = {
-  '333': ['gold'],
-  '375': ['gold'],
-  '416': ['gold'],
-  '417': ['gold'],
-  '500': ['gold', 'palladium'],
-  '583': ['gold'],
-  '585': ['gold'],
-  '750': ['gold'],
-  '800': ['silver'],
-  '830': ['silver'],
-  '833': ['silver'],
-  '835': ['silver'],
-  '850': ['platinum'],
-  '875': ['gold', 'silver'],
-  '900': ['silver', 'platinum', 'gold'],
-  '916': ['gold'],
-  '917': ['gold'],
-  '925': ['silver'],
-  '950': ['platinum', 'palladium', 'silver'],
-  '958': ['silver', 'gold'],
-  '970': ['silver'],
-  '990': ['gold'],
-  '995': ['gold', 'platinum', 'palladium'],
-  '999': ['gold', 'silver', 'platinum', 'palladium'],
-  '9995': ['gold', 'platinum', 'palladium'],
-  '9999': ['gold', 'silver', 'platinum', 'palladium'],
-};
-
-const CATALOGUE = new Map<string, MarkCandidate>();
-
-function add(c: MarkCandidate): MarkCandidate {
-  CATALOGUE.set(c.key, c);
-  return c;
-}
-
-function karatKey(karat: number, plumb: boolean): string {
-  return `${karat}K${plumb ? 'P' : ''}`;
-}
-
-for (let k = MIN_KARAT; k <= MAX_KARAT; k++) {
-  add(candidate(karatKey(k, false), 'gold', `${k}/24`, `${k} karat gold (${k}/24)`));
-  add(candidate(karatKey(k, true), 'gold', `${k}/24`, `${k} karat plumb gold (${k}/24, no tolerance below the mark)`));
-}
-
-function millesimalKey(num: string, metal: Metal): string {
-  return (MILLESIMAL_METALS[num]?.length ?? 0) > 1 ? `${METAL_SYMBOLS[metal]}${num}` : num;
-}
-
-for (const [num, metals] of Object.entries(MILLESIMAL_METALS)) {
-  for (const metal of metals) {
-    add(candidate(millesimalKey(num, metal), metal, `0.${num}`, `${num} ${METAL_LABELS[metal].toLowerCase()}`));
-  }
-}
-
-const WORD = {
-  sterling: add(candidate('STERLING', 'silver', '0.925', 'Sterling silver (at least 925)')),
-  coinSilver: add(candidate('COIN SILVER', 'silver', '0.900', 'Coin silver (at least 900)')),
-  fineSilver: add(candidate('FINE SILVER', 'silver', '0.999', 'Fine silver (999)')),
-  britannia: add(candidate('BRITANNIA', 'silver', '0.958', 'Britannia silver (958)')),
-  vermeil: add(candidate('VERMEIL', 'silver', '0.925', 'Vermeil: gold-coated sterling, bought as sterling (925)')),
-  fineGold: add(candidate('FINE GOLD', 'gold', '0.999', 'Fine gold (999)')),
-  platinum: add(candidate('PLATINUM', 'platinum', '0.950', 'Platinum, unqualified (at least 950)')),
-  palladium: add(candidate('PALLADIUM', 'palladium', '0.950', 'Palladium, unqualified (at least 950)')),
-};
-
-/** Every key a reading can carry (filled keys such as "1/20 14K GF" are built from their parts). */
-export const MARK_CATALOGUE: readonly MarkCandidate[] = Object.freeze([...CATALOGUE.values()]);
-
-export function markCandidateByKey(key: string): MarkCandidate | undefined {
-  return CATALOGUE.get(key);
-}
-
-/** Upper case, decimal finenesses to digits ("0.925", ".925" -> "925"; "999.9" -> "9999"), tokens spaced. */
-export function normaliseMark(input: string): string {
-  let s = input.length > MAX_MARK_LENGTH ? input.slice(0, MAX_MARK_LENGTH) : input;
-  s = s.normalize('NFKC').toUpperCase();
-  s = s.replace(/[\u2044\u2215]/g, '/');
-  s = s.replace(/(^|[^\d])0?[.,](\d{3,4})(?!\d)/g, '$1$2');
-  s = s.replace(/(^|[^\d])(\d{3})[.,](\d)(?!\d)/g, '$1$2$3');
-  s = s.replace(/([A-Z])\.(?=[A-Z])/g, '$1');
-  s = s.replace(/(\d)(?=[A-Z])/g, '$1 ').replace(/([A-Z])(?=\d)/g, '$1 ');
-  s = s.replace(/\s*\/\s*/g, '/');
-  s = s.replace(/[^A-Z0-9/]+/g, ' ').trim();
-  return s;
-}
-
-const KARAT_UNIT = '(?:KARATS?|CARATS?|KT|CT|KP|K)';
-const COMPOSITE = new RegExp(`^(${KARAT_UNIT.slice(3, -1)})(GF|RGP|GP|GE|HGE|HGP|EP|GEP)$`);
-
-function expandTokens(normalized: string): string[] {
-  const out: string[] = [];
-  for (const token of normalized.split(' ')) {
-    const m = COMPOSITE.exec(token);
-    if (m) out.push(m[1]!, m[2]!);
-    else if (token === 'SILVERPLATE' || token === 'SILVERPLATED') out.push('SILVER', 'PLATED');
-    else if (token === 'GOLDFILLED') out.push('GOLD', 'FILLED');
-    else if (token === 'NICKELSILVER') out.push('NICKEL', 'SILVER');
-    else if (token !== '') out.push(token);
-  }
-  return out;
-}
-
-const NO_PRECIOUS = /\b(?:NICKEL SILVER|GERMAN SILVER|ALPAC+A|NEUSILBER|STAINLESS|TITANIUM|TUNGSTEN|BRASS)\b/;
-const FILLED = /\b(?:GF|RGP|GOLD FILLED|GOLD FILL|ROLLED GOLD(?: PLATED?)?)\b/;
-const PLATED_SILVER = /\b(?:EPNS|EPBM|EPWM|EPC|EP|SILVER PLATED?|(?:QUADRUPLE|QUAD|TRIPLE|DOUBLE) PLATED?|STERLING PLATED?)\b/;
-const PLATED_GOLD = /\b(?:HGE|HGP|GEP|GP|GE|GOLD PLATED?|GOLD ELECTROPLATED?|HEAVY GOLD ELECTROPLATE)\b/;
-const PLATED_ANY = /\b(?:PLATED?|ELECTROPLATED?)\b/;
-const FRACTION = /\b(\d{1,3})\/(\d{1,4})\b/;
-const KARAT_AFTER = new RegExp(`\\b(\\d{1,2}) ${KARAT_UNIT}\\b`, 'g');
-const KARAT_BEFORE = /\bK (\d{1,2})\b/g;
-const PLUMB = /\b\d{1,2} KP\b/;
-const PT_WORD = /\b(?:PT|PLAT|PLATINUM|PLATINA)\b/;
-const PD_WORD = /\b(?:PD|PALL|PALLADIUM)\b/;
-const STERLING_WORD = /\b(?:STERLING|STERL|STER|STG)\b/;
-const COIN_WORD = /\bCOIN\b/;
-const FINE_SILVER = /\bFINE SILVER\b/;
-const FINE_GOLD = /\bFINE GOLD\b/;
-const BRITANNIA_WORD = /\bBRITANNIA\b/;
-const VERMEIL_WORD = /\bVERMEIL\b/;
-const NUMBER_TOKEN = /^\d{3,4}$/;
-
-const SILVER_HINTS = new Set(['AG', 'S', 'SILVER', 'PLATA', 'ARGENTO', 'ARGENT']);
-const GOLD_HINTS = new Set(['AU', 'G', 'GOLD', 'ORO']);
-
-const VOCABULARY = new Set([
-  'K', 'KT', 'CT', 'KP', 'KARAT', 'KARATS', 'CARAT', 'CARATS', 'GF', 'RGP', 'GP', 'GE', 'HGE', 'HGP', 'GEP', 'EP',
-  'EPNS', 'EPBM', 'EPWM', 'EPC', 'FILLED', 'FILL', 'ROLLED', 'PLATE', 'PLATED', 'ELECTROPLATE', 'ELECTROPLATED',
-  'HEAVY', 'QUADRUPLE', 'QUAD', 'TRIPLE', 'DOUBLE', 'PT', 'PLAT', 'PLATINUM', 'PLATINA', 'PD', 'PALL', 'PALLADIUM',
-  'STERLING', 'STERL', 'STER', 'STG', 'COIN', 'FINE', 'BRITANNIA', 'VERMEIL', 'SOLID', 'PURE',
-  ...SILVER_HINTS, ...GOLD_HINTS,
-]);
-
-type Draft = Omit<MarkReading, 'input' | 'normalized' | 'notes' | 'candidates'> & {
+type Draft = Omit<MarkReading, 'input' | 'normalized' | 'notes' | 'candidates' | 'namedMetals'> & {
   candidates?: readonly MarkCandidate[];
 };
 
-function finish(input: string, normalized: string, notes: string[], draft: Draft): MarkReading {
+const BIT: Readonly<Record<Metal, number>> = { gold: 1, silver: 2, platinum: 4, palladium: 8 };
+const METAL_ORDER: readonly Metal[] = ['gold', 'silver', 'platinum', 'palladium'];
+/** The frozen list of metals of each mask, in METAL_ORDER: one array per mask, shared by every reading. */
+const METALS_OF_MASK: readonly (readonly Metal[])[] = Array.from({ length: 16 }, (_, mask) => Object.freeze(METAL_ORDER.filter((m) => (mask & BIT[m]) !== 0)));
+
+function metalsOf(mask: number): readonly Metal[] {
+  return METALS_OF_MASK[mask]!;
+}
+
+function finish(input: string, normalized: string, notes: string[], draft: Draft, namedMask = 0): MarkReading {
   return Object.freeze({
     input,
     normalized,
     ...draft,
     candidates: Object.freeze([...(draft.candidates ?? [])]),
+    namedMetals: metalsOf(namedMask),
     notes: Object.freeze(notes),
   });
 }
@@ -221,12 +116,22 @@ function readKarats(text: string, notes: string[]): number[] {
   return found;
 }
 
-function needsTest(candidates: readonly MarkCandidate[], label: string): Draft {
-  return { kind: 'needs-test', label, candidates };
+function needsTest(candidates: readonly MarkCandidate[], label: string, reason: NeedsTestReason): Draft {
+  return { kind: 'needs-test', label, candidates, reason };
 }
 
 function describeCandidates(cs: readonly MarkCandidate[]): string {
   return cs.map((c) => c.label).join(' or ');
+}
+
+/** "gold", "gold or silver", "gold, silver or platinum". */
+function metalList(metals: Iterable<Metal>): string {
+  const names = [...metals].map((m) => METAL_LABELS[m].toLowerCase());
+  return names.length <= 1 ? (names[0] ?? '') : `${names.slice(0, -1).join(', ')} or ${names[names.length - 1]}`;
+}
+
+function capitalised(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
 /** Reads a purity mark as stamped or typed. Never throws; never guesses between metals. */
@@ -259,27 +164,33 @@ export function parseMarkUncached(input: unknown): MarkReading {
           ? 'Gold-filled mark without its fraction: the share of gold in the weight is unknown. Test, or buy on an agreed fraction.'
           : 'Gold-filled mark without the karat of its layer: test the layer.',
       );
-      return finish(raw, normalized, notes, needsTest([], `${type === 'GF' ? 'Gold-filled' : 'Rolled gold plate'}, content unknown`));
+      return finish(raw, normalized, notes, needsTest([], `${type === 'GF' ? 'Gold-filled' : 'Rolled gold plate'}, content unknown`, 'fineness-unknown'), BIT.gold);
     }
     const num = Number(fraction[1]);
     const den = Number(fraction[2]);
     if (num < 1 || den < 1 || num > den) {
       notes.push(`${num}/${den} is not a share of the weight.`);
-      return finish(raw, normalized, notes, needsTest([], 'Gold-filled, fraction unreadable'));
+      return finish(raw, normalized, notes, needsTest([], 'Gold-filled, fraction unreadable', 'fineness-unknown'), BIT.gold);
     }
     const finenessExact = `${num * karat}/${den * 24}`;
     const key = `${num}/${den} ${karat}K ${type}`;
     const c = candidate(key, 'gold', finenessExact, `${type === 'GF' ? 'Gold-filled' : 'Rolled gold plate'}: ${num}/${den} of the weight is ${karat} karat gold`);
-    return finish(raw, normalized, notes, {
-      kind: 'filled',
-      key,
-      metal: 'gold',
-      fineness: c.fineness,
-      finenessExact,
-      label: c.label,
-      candidates: [c],
-      filled: { layerFraction: `${num}/${den}`, layerKarat: karat, layerFinenessExact: `${karat}/24` },
-    });
+    return finish(
+      raw,
+      normalized,
+      notes,
+      {
+        kind: 'filled',
+        key,
+        metal: 'gold',
+        fineness: c.fineness,
+        finenessExact,
+        label: c.label,
+        candidates: [c],
+        filled: { layerFraction: `${num}/${den}`, layerKarat: karat, layerFinenessExact: `${karat}/24` },
+      },
+      BIT.gold,
+    );
   }
 
   const vermeil = VERMEIL_WORD.test(text);
@@ -295,70 +206,114 @@ export function parseMarkUncached(input: unknown): MarkReading {
     }
   }
 
+  // Metals named by a bare word or symbol (AG, SILVER, AU, GOLD, PT, PD...): each must be met by a mark of that metal.
+  // Sets of metals are bit masks here: this runs for every mark typed at the counter.
+  let symbolMask = 0;
+  for (const t of tokens) {
+    if (GOLD_HINTS.has(t)) symbolMask |= BIT.gold;
+    else if (SILVER_HINTS.has(t)) symbolMask |= BIT.silver;
+  }
+  if (PT_WORD.test(text)) symbolMask |= BIT.platinum;
+  if (PD_WORD.test(text)) symbolMask |= BIT.palladium;
+  // "Gold vermeil" names the coat of gold-coated sterling, not the article's metal.
+  if (vermeil) symbolMask &= ~BIT.gold;
+
   // Each group is one mark read on the article; a group with several candidates is ambiguous.
   const groups: MarkCandidate[][] = [];
   const plumb = PLUMB.test(text);
   if (plumb) notes.push('KP (karat plumb): the article meets its karat without the legal tolerance below it.');
-  for (const k of karats) groups.push([CATALOGUE.get(karatKey(k, plumb))!]);
+  for (const k of karats) groups.push([karatCandidate(k, plumb)]);
+  const wordGroups: MarkCandidate[][] = [];
+  if (STERLING_WORD.test(text)) wordGroups.push([WORD.sterling]);
+  if (COIN_WORD.test(text)) wordGroups.push([WORD.coinSilver]);
+  if (FINE_SILVER.test(text)) wordGroups.push([WORD.fineSilver]);
+  if (FINE_GOLD.test(text)) wordGroups.push([WORD.fineGold]);
+  if (BRITANNIA_WORD.test(text)) wordGroups.push([WORD.britannia]);
+  if (vermeil) {
+    notes.push('Vermeil is sterling coated with gold; the coat is not bought.');
+    wordGroups.push([WORD.vermeil]);
+  }
+  // Every metal the mark names: by word or symbol, by a karat (gold) or by a silver word (sterling, coin...).
+  let namedMask = symbolMask;
+  if (groups.length > 0) namedMask |= BIT.gold;
+  for (const g of wordGroups) namedMask |= BIT[g[0]!.metal];
 
   const consumed = new Set<number>();
-  const hasPt = PT_WORD.test(text);
-  const hasPd = PD_WORD.test(text);
-  const silverHint = tokens.some((t) => SILVER_HINTS.has(t));
-  const goldHint = tokens.some((t) => GOLD_HINTS.has(t));
-  let metalWordOnly = false;
-
-  tokens.forEach((token, i) => {
-    if (!NUMBER_TOKEN.test(token)) return;
+  const conflicts: string[] = [];
+  const conflictCandidates: MarkCandidate[] = [];
+  const conflictLabels: string[] = [];
+  for (let i = 0; i < tokens.length; i++) {
+    const token = tokens[i]!;
+    if (!NUMBER_TOKEN.test(token)) continue;
+    consumed.add(i);
     const metals = MILLESIMAL_METALS[token];
     if (!metals) {
       notes.push(`The number ${token} is not a fineness Cupel knows.`);
-      consumed.add(i);
-      return;
+      continue;
     }
-    consumed.add(i);
-    const hinted = metals.filter(
-      (m) => (m === 'platinum' && hasPt) || (m === 'palladium' && hasPd) || (m === 'silver' && silverHint) || (m === 'gold' && goldHint),
-    );
-    const chosen = hinted.length > 0 ? hinted : hasPt || hasPd || silverHint || goldHint ? [] : metals;
-    if (chosen.length === 0) {
-      notes.push(`${token} is not a standard fineness of the metal named beside it.`);
-      groups.push(metals.map((m) => CATALOGUE.get(millesimalKey(token, m))!));
-      return;
+    const group: MarkCandidate[] = [];
+    for (const m of metals) if (namedMask === 0 || (namedMask & BIT[m]) !== 0) group.push(millesimalCandidate(token, m));
+    if (group.length > 0) {
+      groups.push(group);
+      continue;
     }
-    groups.push(chosen.map((m) => CATALOGUE.get(millesimalKey(token, m))!));
-  });
+    const named = metalsOf(namedMask);
+    conflicts.push(`The mark names ${metalList(named)}, but ${token} is a fineness of ${metalList(metals)}, not of ${metalList(named)}.`);
+    conflictLabels.push(`${capitalised(metalList(named))} named, but ${token} is a fineness of ${metalList(metals)}: needs a test`);
+    for (const m of metals) conflictCandidates.push(millesimalCandidate(token, m));
+  }
 
-  const numberedPt = groups.some((g) => g.some((c) => c.metal === 'platinum'));
-  const numberedPd = groups.some((g) => g.some((c) => c.metal === 'palladium'));
-  if (hasPt && !numberedPt) {
-    notes.push('Unqualified "platinum" is taken at 950 (FTC Jewelry Guides, 16 CFR 23.7).');
-    groups.push([WORD.platinum]);
+  groups.push(...wordGroups);
+  if (conflicts.length === 0) {
+    let groupsMask = 0;
+    for (const g of groups) for (const c of g) groupsMask |= BIT[c.metal];
+    if ((symbolMask & BIT.platinum) !== 0 && (groupsMask & BIT.platinum) === 0) {
+      notes.push('Unqualified "platinum" is taken at 950 (FTC Jewelry Guides, 16 CFR 23.7).');
+      groups.push([WORD.platinum]);
+      groupsMask |= BIT.platinum;
+    }
+    if ((symbolMask & BIT.palladium) !== 0 && (groupsMask & BIT.palladium) === 0) {
+      notes.push('Unqualified "palladium" is taken at 950 (FTC Jewelry Guides, 16 CFR 23.7).');
+      groups.push([WORD.palladium]);
+      groupsMask |= BIT.palladium;
+    }
+    const unmet = symbolMask & ~groupsMask;
+    if (groups.length > 0 && unmet !== 0) {
+      const other = groups.flat();
+      const otherMetals = metalList(metalsOf(groupsMask));
+      for (const m of metalsOf(unmet)) {
+        conflicts.push(`The mark names ${metalList([m])}, but ${describeCandidates(other)} is a mark of ${otherMetals}, not of ${metalList([m])}.`);
+        conflictLabels.push(`${METAL_LABELS[m]} named, but the mark reads ${otherMetals}: needs a test`);
+      }
+      conflictCandidates.push(...other);
+    }
   }
-  if (hasPd && !numberedPd) {
-    notes.push('Unqualified "palladium" is taken at 950 (FTC Jewelry Guides, 16 CFR 23.7).');
-    groups.push([WORD.palladium]);
-  }
-  if (STERLING_WORD.test(text)) groups.push([WORD.sterling]);
-  if (COIN_WORD.test(text)) groups.push([WORD.coinSilver]);
-  if (FINE_SILVER.test(text)) groups.push([WORD.fineSilver]);
-  if (FINE_GOLD.test(text)) groups.push([WORD.fineGold]);
-  if (BRITANNIA_WORD.test(text)) groups.push([WORD.britannia]);
-  if (vermeil) {
-    notes.push('Vermeil is sterling coated with gold; the coat is not bought.');
-    groups.push([WORD.vermeil]);
-  }
-  if (groups.length === 0 && (silverHint || goldHint)) metalWordOnly = true;
 
   const ignored = tokens.filter((t, i) => !consumed.has(i) && !VOCABULARY.has(t) && !/^\d/.test(t));
   if (ignored.length > 0) notes.push(`Not read: ${ignored.slice(0, 8).join(' ')}`);
 
+  if (conflicts.length > 0) {
+    notes.push(...conflicts.map((c) => `${c} Test it before pricing.`));
+    const cs = dedupe([...conflictCandidates, ...groups.flat()]);
+    return finish(raw, normalized, notes, needsTest(cs, conflictLabels[0]!, 'metal-conflict'), namedMask);
+  }
+
   if (groups.length === 0) {
-    if (metalWordOnly) {
-      const metal: Metal = silverHint ? 'silver' : 'gold';
-      notes.push(`"${METAL_LABELS[metal]}" without a fineness is not a purity mark (16 CFR 23.5 asks for a fineness beside the word). Test it.`);
-      const cs = MARK_CATALOGUE.filter((c) => c.metal === metal && /^\D*\d+$/.test(c.key) && !c.key.endsWith('KP'));
-      return finish(raw, normalized, notes, needsTest(cs, `${METAL_LABELS[metal]}, fineness unknown: needs a test`));
+    if (metalsOf(symbolMask).length > 1) {
+      notes.push(`The mark names ${metalList(metalsOf(symbolMask))} with no fineness. Test it before pricing.`);
+      return finish(raw, normalized, notes, needsTest([], 'Metals named without a fineness: needs a test', 'metal-conflict'), namedMask);
+    }
+    if ((symbolMask & BIT.gold) !== 0) {
+      notes.push(
+        'Unqualified "gold" may describe only fine (24 karat) gold throughout (FTC Jewelry Guides, 16 CFR 23.4, from memory), so the mark claims 24K. ' +
+          'Items stamped "gold" alone are often of a lower karat or plated (common practice): test it before paying as 24K.',
+      );
+      return finish(raw, normalized, notes, needsTest([karatCandidate(24, false)], 'Gold with no karat: claims 24K, needs a test', 'unqualified-gold'), namedMask);
+    }
+    if ((symbolMask & BIT.silver) !== 0) {
+      notes.push('"Silver" without a fineness is not a purity mark (16 CFR 23.5 asks for a fineness beside the word). Test it.');
+      const cs = MARK_CATALOGUE.filter((c) => c.metal === 'silver' && /^\D*\d+$/.test(c.key) && !c.key.endsWith('KP'));
+      return finish(raw, normalized, notes, needsTest(cs, 'Silver, fineness unknown: needs a test', 'fineness-unknown'), namedMask);
     }
     return finish(raw, normalized, notes, { kind: 'unknown', label: 'Mark not recognised: needs a test' });
   }
@@ -366,13 +321,19 @@ export function parseMarkUncached(input: unknown): MarkReading {
   const ambiguous = groups.find((g) => g.length > 1);
   if (ambiguous) {
     const unambiguous = groups.filter((g) => g.length === 1).map((g) => g[0]!);
-    const narrowed = unambiguous.length > 0 ? ambiguous.filter((c) => unambiguous.every((u) => u.metal === c.metal)) : [];
+    // Only numbers narrow numbers ("835 833" is silver); with a metal named, a group still ambiguous names two metals.
+    const narrowed = unambiguous.length > 0 && namedMask === 0 ? ambiguous.filter((c) => unambiguous.every((u) => u.metal === c.metal)) : [];
     if (narrowed.length === 1 && unambiguous.every((u) => u.metal === narrowed[0]!.metal)) {
       groups.splice(groups.indexOf(ambiguous), 1, [narrowed[0]!]);
     } else {
       const union = dedupe(groups.flat());
-      notes.push(`Could be ${describeCandidates(union)}; test before pricing.`);
-      return finish(raw, normalized, notes, needsTest(union, 'Ambiguous mark: needs a test'));
+      const onlyNumbers = namedMask === 0;
+      notes.push(
+        onlyNumbers
+          ? `Could be ${describeCandidates(union)}: the number is a fineness of ${metalList(new Set(union.map((c) => c.metal)))}. Test it, or name the metal.`
+          : `Could be ${describeCandidates(union)}; test before pricing.`,
+      );
+      return finish(raw, normalized, notes, needsTest(union, 'Ambiguous mark: needs a test', onlyNumbers ? 'ambiguous-metal' : 'metal-conflict'), namedMask);
     }
   }
 
@@ -380,9 +341,9 @@ export function parseMarkUncached(input: unknown): MarkReading {
   const metals = new Set(singles.map((c) => c.metal));
   if (metals.size > 1) {
     notes.push(`Marks of more than one metal: ${describeCandidates(singles)}. Test before pricing.`);
-    return finish(raw, normalized, notes, needsTest(singles, 'Marks of different metals: needs a test'));
+    return finish(raw, normalized, notes, needsTest(singles, 'Marks of different metals: needs a test', 'metal-conflict'), namedMask);
   }
-  if (singles.length === 1) return finish(raw, normalized, notes, solidFrom(singles[0]!));
+  if (singles.length === 1) return finish(raw, normalized, notes, solidFrom(singles[0]!), namedMask);
 
   const values = singles.map((c) => ratioValue(parseRatio(c.finenessExact)));
   let lowest = 0;
@@ -392,10 +353,10 @@ export function parseMarkUncached(input: unknown): MarkReading {
   const highest = values.reduce((a, b) => (a.gt(b) ? a : b));
   if (highest.minus(values[lowest]!).gt('0.005')) {
     notes.push(`Marks disagree: ${describeCandidates(singles)}. Test before pricing.`);
-    return finish(raw, normalized, notes, needsTest(singles, 'Marks disagree: needs a test'));
+    return finish(raw, normalized, notes, needsTest(singles, 'Marks disagree: needs a test', 'marks-disagree'), namedMask);
   }
   notes.push(`Also marked: ${singles.filter((_, i) => i !== lowest).map((c) => c.key).join(', ')}; the lower fineness is used.`);
-  return finish(raw, normalized, notes, solidFrom(singles[lowest]!));
+  return finish(raw, normalized, notes, solidFrom(singles[lowest]!), namedMask);
 }
 
 function dedupe(cs: readonly MarkCandidate[]): MarkCandidate[] {
@@ -418,13 +379,17 @@ export function parseMark(input: unknown): MarkReading {
   return found;
 }
 
-/** The candidate of a reading for a metal the clerk has stated, when the reading allows it. */
+/**
+ * The candidate of a reading for the metal the line states. A clear mark gives its own candidate only
+ * when the line's metal (if any) is the mark's; a bare number of several metals gives the one of the
+ * line's metal; a mark whose words and numbers disagree gives none, whatever the line says.
+ */
 export function resolveMarkForMetal(reading: MarkReading, metal: Metal | undefined): MarkCandidate | undefined {
   if (reading.kind === 'solid' || reading.kind === 'filled') {
     const c = reading.candidates[0];
     return c && (metal === undefined || c.metal === metal) ? c : undefined;
   }
-  if (reading.kind === 'needs-test' && metal !== undefined) {
+  if (reading.kind === 'needs-test' && reading.reason === 'ambiguous-metal' && metal !== undefined) {
     const ofMetal = reading.candidates.filter((c) => c.metal === metal);
     return ofMetal.length === 1 ? ofMetal[0] : undefined;
   }
@@ -433,13 +398,13 @@ export function resolveMarkForMetal(reading: MarkReading, metal: Metal | undefin
 
 /** A key is known when reading it gives back a solid or filled reading with that very key. */
 export function isMarkKey(key: string): boolean {
-  if (CATALOGUE.has(key)) return true;
+  if (markCandidateByKey(key)) return true;
   const r = parseMark(key);
   return (r.kind === 'filled' || r.kind === 'solid') && r.key === key;
 }
 
 export function markedFinenessOfKey(key: string): string | undefined {
-  const c = CATALOGUE.get(key);
+  const c = markCandidateByKey(key);
   if (c) return c.finenessExact;
   const r = parseMark(key);
   return r.key === key ? r.finenessExact : undefined;

@@ -1,10 +1,10 @@
 import { z } from 'zod';
 import { COIN_TYPES, FACE_VALUE_BASES, FACE_VALUE_CLASS_IDS } from './coins';
 import { DECIMAL_PATTERN, Dec, compareRatio, parseRatio } from './decimal';
-import { isMarkKey, markedFinenessOfKey } from './marks';
+import { RENAMED_MARK_KEYS, isMarkKey, markedFinenessOfKey, parseMark } from './marks';
 import { METALS } from './metals';
 import { CURRENCY_CODES, type CurrencyCode } from './money';
-import { LINE_CATEGORIES, RATE_CATEGORIES, type RateCategory } from './rates';
+import { LINE_CATEGORIES, RATE_CATEGORIES, SPLIT_RATE_CATEGORIES, type RateCategory } from './rates';
 import { checkQuoteConsistency } from './resolve';
 import { readWeightUnit, toGrams, type WeightUnit } from './units';
 
@@ -124,9 +124,26 @@ export const rateRuleSchema = z.discriminatedUnion('basis', [
   z.object({ basis: z.literal('under-spot'), amountPerTroyOunce: decimalField() }).strict(),
 ]);
 
-export const ratesSchema = z
-  .object(Object.fromEntries(RATE_CATEGORIES.map((c) => [c, rateRuleSchema.optional()])) as Record<RateCategory, z.ZodOptional<typeof rateRuleSchema>>)
-  .strict();
+/** A rate saved for a category that was split applies to each part that has none of its own. */
+function splitOldCategories(value: unknown): unknown {
+  if (typeof value !== 'object' || value === null || Array.isArray(value)) return value;
+  const record = value as Record<string, unknown>;
+  if (!Object.keys(SPLIT_RATE_CATEGORIES).some((old) => Object.hasOwn(record, old))) return value;
+  const out: Record<string, unknown> = {};
+  for (const [key, rule] of Object.entries(record)) {
+    const parts = SPLIT_RATE_CATEGORIES[key];
+    if (!parts) out[key] = rule;
+    else for (const part of parts) if (!Object.hasOwn(record, part)) out[part] = rule;
+  }
+  return out;
+}
+
+export const ratesSchema = z.preprocess(
+  splitOldCategories,
+  z
+    .object(Object.fromEntries(RATE_CATEGORIES.map((c) => [c, rateRuleSchema.optional()])) as Record<RateCategory, z.ZodOptional<typeof rateRuleSchema>>)
+    .strict(),
+);
 
 const metalSchema = z.enum(METALS);
 const lineCategorySchema = z.enum(LINE_CATEGORIES);
@@ -195,10 +212,22 @@ export const spotSchema = z.object({
   palladium: spotField.optional(),
 }).strict();
 
+/** Why a key is refused; a number of several metals names the keys to use instead ("990" -> AU990, AG990...). */
+function unknownMarkKeyMessage(key: string): string {
+  const shown = key.slice(0, 40);
+  const reading = parseMark(key);
+  if (reading.reason === 'ambiguous-metal') {
+    const keys = reading.candidates.map((c) => c.key);
+    const renamed = RENAMED_MARK_KEYS[key];
+    return `"${shown}" is a fineness of more than one metal: use ${keys.join(', ')}${renamed ? ` (${renamed} is what "${shown}" meant before)` : ''}`;
+  }
+  return `"${shown}" is not a mark key Cupel knows`;
+}
+
 export const assumedFinenessSchema = z.record(z.string(), finenessField).superRefine((record, ctx) => {
   for (const [key, value] of Object.entries(record)) {
     if (!isMarkKey(key)) {
-      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, path: [key], message: `"${key.slice(0, 40)}" is not a mark key Cupel knows` });
+      ctx.addIssue({ fatal: true, code: z.ZodIssueCode.custom, path: [key], message: unknownMarkKeyMessage(key) });
       continue;
     }
     const marked = markedFinenessOfKey(key)!;

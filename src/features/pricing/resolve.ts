@@ -165,6 +165,7 @@ function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteCon
       return { status: 'invalid' };
     }
     if (reading?.metal && reading.metal !== metal) notes.push(`Marked ${reading.label}; priced on the test as ${metal}.`);
+    else if (reading?.kind === 'needs-test') notes.push(`Marked "${reading.input}" (${reading.label.toLowerCase()}); priced on the test as ${metal}.`);
     const tested = parseRatio(line.fineness);
     const fineGramsN = mulExact(weights.netGrams, tested.n);
     return priced(line, index, quote, metal, resolveRateCategory(metal, line.category, ratioThresholdTest(tested)), {
@@ -189,13 +190,7 @@ function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteCon
     return { status: 'not-buyable', reading, message: `${reading.label}: nothing to buy as precious metal`, weights };
   }
   const chosen = resolveMarkForMetal(reading, line.metal);
-  if (!chosen) {
-    if ((reading.kind === 'solid' || reading.kind === 'filled') && line.metal && reading.metal !== line.metal) {
-      issues?.push({ path: ['lines', index, 'metal'], message: `the mark reads ${reading.label}, but the line says ${line.metal}; test it and give the fineness` });
-      return { status: 'invalid' };
-    }
-    return { status: 'needs-test', reading, message: reading.label, weights };
-  }
+  if (!chosen) return { status: 'needs-test', reading, message: needsTestMessage(reading, line.metal), weights };
   const marked = parseRatio(chosen.finenessExact);
   const assumed = quote.assumedFineness[chosen.key];
   const paidOn = assumed !== undefined ? parseRatio(assumed) : marked;
@@ -213,6 +208,26 @@ function resolveWeightLine(line: ValidWeightLine, index: number, quote: QuoteCon
     weights,
     notes,
   });
+}
+
+/** The plain reason a weight line is held for a test: what the mark says, and what does not fit. */
+function needsTestMessage(reading: MarkReading, metal: Metal | undefined): string {
+  if ((reading.kind === 'solid' || reading.kind === 'filled') && metal !== undefined) {
+    return `The mark reads ${reading.label}, but the line says ${metal}. Test it and enter the tested fineness, or correct the metal.`;
+  }
+  if (reading.reason === 'ambiguous-metal') {
+    const metals = [...new Set(reading.candidates.map((c) => c.metal))];
+    const list = metals.length > 1 ? `${metals.slice(0, -1).join(', ')} or ${metals[metals.length - 1]}` : metals.join('');
+    return metal !== undefined
+      ? `The line says ${metal}, but ${reading.normalized} is a fineness of ${list}. Test it and enter the tested fineness, or correct the metal.`
+      : `${reading.normalized} is a fineness of ${list}: choose the metal, or test it.`;
+  }
+  if (reading.reason === 'metal-conflict') {
+    const said = reading.notes.find((n) => n.startsWith('The mark names') || n.startsWith('Marks of more than one metal') || n.startsWith('Could be'));
+    return said ?? `${reading.label}. Test it before pricing.`;
+  }
+  if (reading.reason === 'unqualified-gold') return 'Marked "gold" with no karat: the word alone claims 24 karat (fine) gold. Test it before paying as 24K.';
+  return reading.kind === 'unknown' ? `${reading.label}. Enter a tested fineness and its metal.` : `${reading.label}. Enter a tested fineness.`;
 }
 
 function resolveCoinLine(line: ValidCoinLine, index: number, quote: QuoteContext): LineResolution {

@@ -146,6 +146,22 @@ describe('the grading island', () => {
     expect(screen.getByTestId('total-payout').textContent).toBe('$0.00');
   });
 
+  it('prices AG 990 as silver and holds 750 silver for a test, never as gold', async () => {
+    const user = userEvent.setup();
+    render(<TicketWorkbench initial={initial()} />);
+    const line = within(screen.getByTestId('line-1'));
+    await user.type(line.getByLabelText('Mark'), 'AG 990');
+    await user.type(line.getByLabelText('Gross weight'), '10');
+    const silver = priceQuote({ currency: 'USD', spot: { silver: '30.0000' }, lines: [{ kind: 'weight', category: 'jewelry', mark: 'AG 990', grossWeight: { value: '10', unit: 'g' } }] });
+    expect(silver.totals.payout.formatted).toBe('$6.68');
+    expect(screen.getByTestId('total-payout').textContent).toBe('$6.68');
+    await user.clear(line.getByLabelText('Mark'));
+    await user.type(line.getByLabelText('Mark'), '750 silver');
+    expect(screen.getByTestId('line-1-reading').textContent).toMatch(/needs a test/);
+    expect(screen.getByTestId('line-1-reading').textContent).toMatch(/tested fineness/);
+    expect(screen.getByTestId('total-payout').textContent).toBe('$0.00');
+  });
+
   it('shows the acid-test cautions and defers to the kit maker and local rules', () => {
     render(<TicketWorkbench initial={initial()} />);
     const caution = screen.getByRole('complementary', { name: 'Testing safely' });

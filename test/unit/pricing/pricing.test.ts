@@ -93,8 +93,10 @@ describe('weight lines', () => {
     expect(cat('10K')).toBe('gold-jewelry-below-14k');
     expect(cat('583')).toBe('gold-jewelry-14k-to-17k');
     expect(cat('585')).toBe('gold-jewelry-14k-to-17k');
-    expect(cat('750')).toBe('gold-jewelry-18k-and-above');
-    expect(cat('22K')).toBe('gold-jewelry-18k-and-above');
+    expect(cat('750')).toBe('gold-jewelry-18k-to-21k');
+    // 22K and 24K have bands of their own (they shared the 18K-and-above band).
+    expect(cat('22K')).toBe('gold-jewelry-22k-to-23k');
+    expect(cat('24K')).toBe('gold-jewelry-24k');
   });
 
   it('leaves an ambiguous mark unpriced with its candidates, and prices it once the metal is stated', () => {
@@ -253,8 +255,11 @@ describe('validation', () => {
     expect(issuesOf(quote([weightLine({ tare: { value: '10', unit: 'g' } })]))[0]!.path).toBe('lines.0.tare.value');
   });
 
-  it('refuses a mark of another metal than the line states, and a line with neither mark nor fineness', () => {
-    expect(issuesOf(quote([weightLine({ mark: '14K', metal: 'silver' })]))[0]!.path).toBe('lines.0.metal');
+  it('holds for a test a mark of another metal than the line states, and refuses a line with neither mark nor fineness', () => {
+    // A line whose metal disagrees with its mark is needs-test with the mark's candidates, never priced (it was a 422).
+    const held = priceQuote(quote([weightLine({ mark: '14K', metal: 'silver' })])).lines[0]!;
+    expect(held.status).toBe('needs-test');
+    expect(held.status === 'needs-test' && held.message).toMatch(/14 karat gold .* but the line says silver/);
     expect(issuesOf(quote([weightLine({ mark: undefined })]))[0]!.path).toBe('lines.0.mark');
     expect(issuesOf(quote([weightLine({ mark: undefined, fineness: '0.9' })]))[0]!.path).toBe('lines.0.metal');
   });

@@ -326,7 +326,9 @@ function MarkReadingText({ reading }: { reading: ReturnType<typeof parseMark> })
       return (
         <span className="font-semibold text-amber-800">
           {reading.label}
-          {reading.candidates.length > 0 && <> · could be {reading.candidates.map((c) => c.label).join(', ')}: test it or choose the metal</>}
+          {reading.reason === 'ambiguous-metal' && <> · could be {reading.candidates.map((c) => c.label).join(', ')}: test it or choose the metal</>}
+          {reading.reason === 'marks-disagree' && <> · {reading.candidates.map((c) => c.label).join(', ')}: test it and enter the tested fineness</>}
+          {reading.kind === 'needs-test' && reading.reason !== 'ambiguous-metal' && reading.reason !== 'marks-disagree' && <> · test it and enter the tested fineness</>}
         </span>
       );
   }

@@ -1,7 +1,7 @@
 import { useEffect, useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson, ApiError } from '@/lib/client/fetch-json';
-import { DEFAULT_RATES, RATE_CATEGORIES, type RateCategory, type RateRule } from '@/features/pricing/rates';
+import { DEFAULT_RATES, RATE_CATEGORIES, RATE_CATEGORY_LABELS, type RateCategory, type RateRule } from '@/features/pricing/rates';
 import { ID_TYPE_LABELS } from '@/features/sellers/sellers';
 import { parseMark } from '@/features/pricing/marks';
 
@@ -17,21 +17,7 @@ interface SettingsAnswer {
   definitions: Record<string, Definition>;
 }
 
-const RATE_LABELS: Record<RateCategory, string> = {
-  'gold-jewelry-below-14k': 'Gold jewelry below 14K',
-  'gold-jewelry-14k-to-17k': 'Gold jewelry 14K to 17K',
-  'gold-jewelry-18k-and-above': 'Gold jewelry 18K and above',
-  'gold-scrap': 'Gold scrap and dental',
-  'gold-filled': 'Gold-filled',
-  'gold-coin': 'Gold coins',
-  'gold-bullion': 'Gold bullion',
-  'silver-flatware': 'Sterling flatware and hollowware',
-  'silver-scrap': 'Silver scrap and jewelry',
-  'silver-coin': 'Silver coins',
-  'silver-bullion': 'Silver bullion',
-  platinum: 'Platinum',
-  palladium: 'Palladium',
-};
+const RATE_LABELS = RATE_CATEGORY_LABELS;
 
 const SIMPLE_KEYS = [
   'seller.minimum_age_years',
