@@ -14,6 +14,7 @@ import { retryDueSends } from '@/features/payouts/sending.server';
 import { resetPaymentProvider } from '@/features/settlement/provider.server';
 import { payElectronically, refreshPayoutAccount, startOnboarding } from '@/features/settlement/settlement.server';
 import { testDb } from '../support/db';
+import { usePaymentsFake } from '../support/payments';
 import { makeCounterWorld, setSpots, type CounterWorld } from '../support/counter';
 import { acceptedTicket } from '../support/tickets';
 import { waitFor as until } from '../support/wait';
@@ -42,13 +43,7 @@ beforeAll(async () => {
   hookUrl = `http://127.0.0.1:${(hook.address() as AddressInfo).port}/webhook`;
   // Payouts stay pending until a test settles them, so each test says when the provider pays.
   fake = await createPaymentsFake({ port: 0, webhookUrl: hookUrl, webhookSecret: SECRET, payoutDelayMs: 600_000, dataDir: null, webhookRetryBaseMs: 50, log: () => {} });
-  process.env.STRIPE_SECRET_KEY = 'sk_test_payouts';
-  process.env.STRIPE_API_HOST = '127.0.0.1';
-  process.env.STRIPE_API_PORT = String(fake.port);
-  process.env.STRIPE_API_PROTOCOL = 'http';
-  process.env.STRIPE_WEBHOOK_SECRET = SECRET;
-  process.env.STRIPE_TIMEOUT_MS = '1500';
-  resetPaymentProvider();
+  usePaymentsFake(fake, { secretKey: 'sk_test_payouts', webhookSecret: SECRET });
 });
 
 afterAll(async () => {

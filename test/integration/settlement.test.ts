@@ -15,6 +15,7 @@ import {
   startOnboarding,
 } from '@/features/settlement/settlement.server';
 import { testDb } from '../support/db';
+import { usePaymentsFake } from '../support/payments';
 import { makeCounterWorld, setSpots, type CounterWorld } from '../support/counter';
 import { acceptedTicket } from '../support/tickets';
 import { waitFor as until } from '../support/wait';
@@ -51,13 +52,7 @@ beforeAll(async () => {
     dataDir: null,
     webhookRetryBaseMs: 50,
   });
-  process.env.STRIPE_SECRET_KEY = 'sk_test_settlement';
-  process.env.STRIPE_API_HOST = '127.0.0.1';
-  process.env.STRIPE_API_PORT = String(fake.port);
-  process.env.STRIPE_API_PROTOCOL = 'http';
-  process.env.STRIPE_WEBHOOK_SECRET = SECRET;
-  process.env.STRIPE_TIMEOUT_MS = '1500';
-  resetPaymentProvider();
+  usePaymentsFake(fake, { secretKey: 'sk_test_settlement', webhookSecret: SECRET });
 });
 
 afterAll(async () => {
